@@ -1,0 +1,79 @@
+/**
+ * The analysis result for one document: one MatrixReport per matrix literal found, plus
+ * model-level results. Plain data, produced by analysis/analyze.ts and consumed by ide/
+ * (hover, lenses, diagnostics, actions) and cli/ (text, JSON, SARIF).
+ */
+import type { Mode, Spectrum, Stability, TransitionClosedForm, Domain } from '../engine/types';
+import type { MatrixRole, Problem, SourceLanguage, Span, EntryValue } from '../syntax/types';
+
+/** A finding with a stable code of ours, at a document range. */
+export interface Finding extends Problem {
+  /** Optional machine-readable data for quick fixes (e.g. the pragma text to insert). */
+  data?: Record<string, unknown>;
+}
+
+export interface DiscreteModel {
+  method: 'zoh' | 'tustin' | 'euler' | 'backward-euler' | 'foh';
+  period: number;
+  Ad: number[][];
+  Bd: number[][] | null;
+  Cd?: number[][] | null;
+  Dd?: number[][] | null;
+  Qd?: number[][] | null;
+  /** Exact text entries when the method kept exactness (Tustin/Euler of rational input). */
+  exact?: { Ad: string[][]; Bd: string[][] | null; Cd?: string[][] | null; Dd?: string[][] | null } | null;
+}
+
+export interface MatrixReport {
+  /** Index in ExtractedFile.matrices. */
+  index: number;
+  name: string | null;
+  /** 1-based line and column of the literal's start, as the CLI prints them. */
+  line: number;
+  column: number;
+  span: Span;
+  nameSpan: Span | null;
+  statementSpan: Span;
+  rows: number;
+  cols: number;
+  role: MatrixRole;
+  modelId: string | null;
+  domain: Domain;
+  period: number | null;
+  exact: boolean;
+  /** Entries as evaluated, row-major (null where an entry failed to evaluate). */
+  values: (EntryValue | null)[][];
+  /** State matrices only; null when the matrix is not square, failed to evaluate, or is over a cap. */
+  spectrum: Spectrum | null;
+  stability: Stability | null;
+  modes: Mode[];
+  transition: TransitionClosedForm | null;
+  discrete: DiscreteModel | null;
+  findings: Finding[];
+  /** What was not computed and why (caps, bad entries). */
+  skipped: string[];
+  /** Content hash used by the cache (entries, domain, period, settings that matter). */
+  hash: string;
+}
+
+export interface ModelReport {
+  id: string;
+  state: number;
+  input: number | null;
+  output: number | null;
+  feedthrough: number | null;
+  domain: Domain;
+  period: number | null;
+  /** Filled by the discrete-time and controllability work. */
+  controllability?: unknown;
+  observability?: unknown;
+  transferFunction?: unknown;
+}
+
+export interface DocumentReport {
+  language: SourceLanguage;
+  matrices: MatrixReport[];
+  models: ModelReport[];
+  /** Findings not tied to one matrix (parse errors, unknown names, file caps). */
+  findings: Finding[];
+}
