@@ -1,0 +1,290 @@
+/**
+ * One document in, one DocumentReport out: extract literals, group models, then analyse
+ * each state matrix (spectrum, stability, modes, closed form, discretization) and turn
+ * what was found into findings with our stable codes.
+ *
+ * Matrix analyses are cached by a content hash of everything that can change the result
+ * (entries, domain, period, the settings that matter), so an edit elsewhere in the file
+ * never recomputes an unchanged matrix.
+ */
+import { createHash } from 'node:crypto';
+import { Rational } from '../engine/rational';
+import type { Domain, Spectrum, Stability } from '../engine/types';
+import { exactSpectrum } from '../engine/spectrumExact';
+import { floatSpectrum } from '../engine/spectrumFloat';
+import { stabilityOf } from '../engine/stability';
+import { modesOf } from '../engine/modes';
+import { transitionClosedForm } from '../engine/closedForm';
+import { extract, initParsers } from '../syntax/extract';
+import { groupModels } from '../model/group';
+import type { ExtractedFile, MatrixLiteral, SourceLanguage, EntryValue } from '../syntax/types';
+import type { ModelGroup } from '../model/types';
+import type { AnalysisSettings } from './settings';
+import type { DiscreteModel, DocumentReport, Finding, MatrixReport, ModelReport } from './report';
+import { discreteModelFor } from './discrete';
+import { findingsForMatrix } from './findings';
+import { lineColumnAt } from './position';
+
+export { DEFAULT_SETTINGS } from './settings';
+
+export async function initAnalysis(opts?: { wasmDir?: string }): Promise<void> {
+  await initParsers(opts);
+}
+
+/** The part of a MatrixReport that depends only on the matrix content and its context. */
+export interface MatrixCore {
+  spectrum: MatrixReport['spectrum'];
+  stability: Stability | null;
+  stabilityReasons: string[];
+  modes: MatrixReport['modes'];
+  transition: MatrixReport['transition'];
+  discrete: DiscreteModel | null;
+  skipped: string[];
+  notes: string[];
+}
+
+/** A bounded cache of matrix analyses keyed by content hash (least recently used evicted). */
+export class AnalysisCache {
+  private readonly map = new Map<string, MatrixCore>();
+  hits = 0;
+  misses = 0;
+  constructor(private readonly capacity = 2000) {}
+  get(key: string): MatrixCore | undefined {
+    const v = this.map.get(key);
+    if (v) {
+      this.map.delete(key);
+      this.map.set(key, v);
+      this.hits++;
+    }
+    return v;
+  }
+  set(key: string, v: MatrixCore): void {
+    this.misses++;
+    this.map.set(key, v);
+    if (this.map.size > this.capacity) this.map.delete(this.map.keys().next().value as string);
+  }
+  get size(): number {
+    return this.map.size;
+  }
+}
+
+export interface AnalyzeOptions {
+  cache?: AnalysisCache;
+  /** Called between matrices; return true to abandon the analysis (stale version). */
+  isCancelled?: () => boolean;
+}
+
+export function analyzeDocument(
+  text: string,
+  language: SourceLanguage,
+  settings: AnalysisSettings,
+  options: AnalyzeOptions = {},
+): DocumentReport {
+  const findings: Finding[] = [];
+  if (text.length > settings.maxFileChars) {
+    findings.push({
+      span: { start: 0, end: 0 },
+      severity: 'information',
+      code: 'file-too-large',
+      message: `eigenlens skipped this file: ${text.length.toLocaleString('en-US')} characters is over the limit of ${settings.maxFileChars.toLocaleString('en-US')} (setting eigenlens.maxFileChars).`,
+    });
+    return { language, matrices: [], models: [], findings };
+  }
+  const file: ExtractedFile = extract(text, language, { stateMatrixNames: settings.stateMatrixNames });
+  findings.push(...file.problems);
+  const grouping = groupModels(file, { defaultDomain: settings.defaultDomain, defaultPeriod: settings.defaultPeriod });
+  findings.push(...grouping.problems);
+
+  const modelOf = new Map<number, ModelGroup>();
+  for (const m of grouping.models) {
+    for (const idx of [m.state, m.input, m.output, m.feedthrough, m.noiseInput, m.noiseCovariance]) {
+      if (idx !== null && idx !== undefined) modelOf.set(idx, m);
+    }
+  }
+
+  const matrices: MatrixReport[] = [];
+  for (let index = 0; index < file.matrices.length; index++) {
+    if (options.isCancelled?.()) break;
+    const lit = file.matrices[index];
+    if (lit.pragma?.ignore) continue;
+    const model = modelOf.get(index) ?? null;
+    matrices.push(reportForMatrix(text, file, lit, index, model, settings, options.cache));
+  }
+
+  const models: ModelReport[] = grouping.models.map((m) => ({
+    id: m.id,
+    state: m.state,
+    input: m.input,
+    output: m.output,
+    feedthrough: m.feedthrough,
+    domain: m.domain,
+    period: m.period,
+  }));
+  return { language, matrices, models, findings };
+}
+
+function entryValues(lit: MatrixLiteral): (EntryValue | null)[][] {
+  return lit.rows.map((row) => row.map((e) => e.value));
+}
+
+function valueKey(v: EntryValue | null): string {
+  if (!v) return '?';
+  return v.kind === 'exact' ? `q${v.value.toString()}` : `f${v.value}`;
+}
+
+function reportForMatrix(
+  text: string,
+  file: ExtractedFile,
+  lit: MatrixLiteral,
+  index: number,
+  model: ModelGroup | null,
+  settings: AnalysisSettings,
+  cache: AnalysisCache | undefined,
+): MatrixReport {
+  const values = entryValues(lit);
+  const isState = lit.role === 'state' || (model !== null && model.state === index);
+  const domain: Domain = model?.domain ?? lit.pragma?.domain ?? settings.defaultDomain;
+  const period = model?.period ?? periodOf(lit.pragma?.period) ?? settings.defaultPeriod;
+  const { line, column } = lineColumnAt(text, lit.span.start);
+
+  const hashInput = [
+    values.map((r) => r.map(valueKey).join(',')).join(';'),
+    isState ? 'S' : 'O',
+    domain,
+    String(period),
+    settings.exactMaxN,
+    settings.closedFormMaxN,
+    settings.numericMaxN,
+    settings.exactMaxDigits,
+    settings.nearRepeatThreshold,
+    settings.discretizeMethod,
+    modelKey(file, model),
+  ].join('|');
+  const hash = createHash('sha1').update(hashInput).digest('hex').slice(0, 16);
+
+  let core = cache?.get(hash);
+  if (!core) {
+    core = isState ? analyseStateMatrix(lit, values, domain, period, settings, file, model) : emptyCore();
+    cache?.set(hash, core);
+  }
+
+  const report: MatrixReport = {
+    index,
+    name: lit.name,
+    line,
+    column,
+    span: lit.span,
+    nameSpan: lit.nameSpan,
+    statementSpan: lit.statementSpan,
+    rows: lit.nRows,
+    cols: lit.nCols,
+    role: isState ? 'state' : lit.role,
+    modelId: model?.id ?? null,
+    domain,
+    period,
+    exact: lit.exact,
+    values,
+    spectrum: core.spectrum,
+    stability: core.stability,
+    modes: core.modes,
+    transition: core.transition,
+    discrete: core.discrete,
+    findings: [],
+    skipped: core.skipped,
+    hash,
+  };
+  report.findings = isState ? findingsForMatrix(report, core, lit, settings) : [];
+  return report;
+}
+
+/** The model's other matrices change the discretization, so they are part of the key. */
+function modelKey(file: ExtractedFile, model: ModelGroup | null): string {
+  if (!model) return '';
+  const parts: string[] = [];
+  for (const idx of [model.input, model.output, model.feedthrough, model.noiseInput, model.noiseCovariance]) {
+    parts.push(idx === null || idx === undefined ? '-' : entryValues(file.matrices[idx]).map((r) => r.map(valueKey).join(',')).join(';'));
+  }
+  return parts.join('/');
+}
+
+function periodOf(v: EntryValue | undefined): number | null {
+  if (!v) return null;
+  return v.kind === 'exact' ? v.value.toNumber() : v.value;
+}
+
+function emptyCore(): MatrixCore {
+  return { spectrum: null, stability: null, stabilityReasons: [], modes: [], transition: null, discrete: null, skipped: [], notes: [] };
+}
+
+function analyseStateMatrix(
+  lit: MatrixLiteral,
+  values: (EntryValue | null)[][],
+  domain: Domain,
+  period: number | null,
+  settings: AnalysisSettings,
+  file: ExtractedFile,
+  model: ModelGroup | null,
+): MatrixCore {
+  const core = emptyCore();
+  const n = lit.nRows;
+  if (n === 0 || lit.nCols !== n || values.some((r) => r.length !== n)) {
+    core.skipped.push('The matrix is not square, so it has no eigenvalues.');
+    return core;
+  }
+  if (values.some((r) => r.some((v) => v === null))) {
+    core.skipped.push('Some entries could not be evaluated; fix them to see the analysis.');
+    return core;
+  }
+  if (n > settings.numericMaxN) {
+    core.skipped.push(`n = ${n} is over the spectrum limit of ${settings.numericMaxN} (setting eigenlens.numericMaxN).`);
+    return core;
+  }
+  const tooManyDigits = values.some((r) => r.some((v) => v!.kind === 'exact' && v!.value.digits() > settings.exactMaxDigits));
+  let useExact = lit.exact && n <= settings.exactMaxN && !tooManyDigits;
+  if (lit.exact && n > settings.exactMaxN) {
+    core.notes.push(`n = ${n} is over the exact-arithmetic limit of ${settings.exactMaxN}; analysed in floating point.`);
+  }
+  if (lit.exact && tooManyDigits) {
+    core.notes.push(`Some entries have more than ${settings.exactMaxDigits} digits; analysed in floating point.`);
+  }
+  const exactA: Rational[][] | null = useExact ? values.map((r) => r.map((v) => (v as { kind: 'exact'; value: Rational }).value)) : null;
+  const floatA: number[][] = values.map((r) => r.map((v) => (v!.kind === 'exact' ? v!.value.toNumber() : v!.value)));
+
+  let spectrum: Spectrum;
+  try {
+    spectrum = exactA ? exactSpectrum(exactA, { nearRepeatThreshold: settings.nearRepeatThreshold }) : floatSpectrum(floatA, { nearRepeatThreshold: settings.nearRepeatThreshold });
+  } catch (err) {
+    if (exactA) {
+      core.notes.push(`Exact analysis failed (${(err as Error).message}); analysed in floating point.`);
+      useExact = false;
+      spectrum = floatSpectrum(floatA, { nearRepeatThreshold: settings.nearRepeatThreshold });
+    } else {
+      core.skipped.push(`The spectrum could not be computed: ${(err as Error).message}`);
+      return core;
+    }
+  }
+  core.spectrum = spectrum;
+  const st = stabilityOf(spectrum.eigenvalues, domain);
+  core.stability = st.verdict;
+  core.stabilityReasons = st.reasons;
+  core.modes = modesOf(spectrum, domain, period);
+
+  if (n <= settings.closedFormMaxN) {
+    try {
+      core.transition = transitionClosedForm(exactA ?? floatA, spectrum, domain, { maxN: settings.closedFormMaxN });
+    } catch (err) {
+      core.skipped.push(`The closed form could not be built: ${(err as Error).message}`);
+    }
+  } else {
+    core.skipped.push(`n = ${n} is over the closed-form limit of ${settings.closedFormMaxN} (setting eigenlens.closedFormMaxN).`);
+  }
+
+  if (domain === 'continuous' && period !== null && settings.discretizeMethod) {
+    try {
+      core.discrete = discreteModelFor(file, model, exactA, floatA, period, settings.discretizeMethod);
+    } catch (err) {
+      core.skipped.push(`Discretization failed: ${(err as Error).message}`);
+    }
+  }
+  return core;
+}

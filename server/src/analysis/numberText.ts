@@ -1,0 +1,31 @@
+/**
+ * Numbers for people: significant digits without trailing zeros, engineering-friendly
+ * exponents, and durations with a unit. Used by the CLI text report and the hover.
+ */
+export function formatNumber(x: number, digits = 6): string {
+  if (Number.isNaN(x)) return 'NaN';
+  if (!Number.isFinite(x)) return x > 0 ? '∞' : '−∞';
+  if (x === 0) return '0';
+  const ax = Math.abs(x);
+  let s: string;
+  if (ax >= 1e-4 && ax < 1e7) {
+    s = Number(x.toPrecision(digits)).toString();
+    if (s.includes('e')) s = x.toPrecision(digits);
+  } else {
+    const [m, e] = x.toExponential(digits - 1).split('e');
+    s = `${Number(m)}e${Number(e)}`;
+  }
+  return s.replace(/^-/, '−');
+}
+
+/** A time in seconds, scaled to ms/µs or min/h where that reads better. */
+export function formatSeconds(sec: number, digits = 3): string {
+  if (!Number.isFinite(sec)) return '∞';
+  const a = Math.abs(sec);
+  if (a === 0) return '0 s';
+  if (a < 1e-3) return `${formatNumber(sec * 1e6, digits)} µs`;
+  if (a < 1) return `${formatNumber(sec * 1e3, digits)} ms`;
+  if (a < 600) return `${formatNumber(sec, digits)} s`;
+  if (a < 36000) return `${formatNumber(sec / 60, digits)} min`;
+  return `${formatNumber(sec / 3600, digits)} h`;
+}
