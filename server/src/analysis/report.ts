@@ -41,6 +41,8 @@ export interface MatrixReport {
   domain: Domain;
   period: number | null;
   exact: boolean;
+  /** Span of each entry, row-major, for entry hovers (optional: filled when the analysis has it). */
+  entrySpans?: Span[][];
   /** Entries as evaluated, row-major (null where an entry failed to evaluate). */
   values: (EntryValue | null)[][];
   /** State matrices only; null when the matrix is not square, failed to evaluate, or is over a cap. */

@@ -1,0 +1,66 @@
+/**
+ * The one place where the editor's `eigenlens.*` settings become AnalysisSettings (plus the
+ * few settings only the editor features use). Values of the wrong type or out of range are
+ * ignored in favour of the defaults, so a typo in settings.json never breaks analysis.
+ */
+import { DEFAULT_SETTINGS, type AnalysisSettings } from '../analysis/settings';
+import type { EigenlensUserSettings } from '../shared/protocol';
+
+export interface IdeSettings {
+  analysis: AnalysisSettings;
+  codeLensEnabled: boolean;
+}
+
+export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true };
+
+const DISCRETIZE_METHODS = ['zoh', 'tustin', 'euler', 'backward-euler', 'foh'] as const;
+
+function positiveNumber(x: unknown): number | undefined {
+  return typeof x === 'number' && Number.isFinite(x) && x > 0 ? x : undefined;
+}
+
+function integerIn(x: unknown, lo: number, hi: number): number | undefined {
+  return typeof x === 'number' && Number.isInteger(x) && x >= lo && x <= hi ? x : undefined;
+}
+
+/** Maps the raw configuration object (any shape) onto our settings. */
+export function settingsFromUser(raw: unknown): IdeSettings {
+  const user = (raw && typeof raw === 'object' ? raw : {}) as EigenlensUserSettings & Record<string, unknown>;
+  const analysis: AnalysisSettings = { ...DEFAULT_SETTINGS };
+  if (user.defaultDomain === 'continuous' || user.defaultDomain === 'discrete') analysis.defaultDomain = user.defaultDomain;
+  if (user.defaultPeriod === null) analysis.defaultPeriod = null;
+  else if (positiveNumber(user.defaultPeriod) !== undefined) analysis.defaultPeriod = user.defaultPeriod as number;
+  const precision = integerIn(user.precision, 2, 17);
+  if (precision !== undefined) analysis.precision = precision;
+  // The design caps closed forms at n = 12 (every request stays bounded); users may lower it.
+  const closedFormMaxN = integerIn(user.closedFormMaxN, 1, 12);
+  if (closedFormMaxN !== undefined) analysis.closedFormMaxN = closedFormMaxN;
+  const threshold = user.lightDampingThreshold;
+  if (typeof threshold === 'number' && Number.isFinite(threshold) && threshold >= 0 && threshold <= 1) {
+    analysis.lightDampingThreshold = threshold;
+  }
+  if (Array.isArray(user.stateMatrixNames)) {
+    analysis.stateMatrixNames = user.stateMatrixNames.filter((s): s is string => typeof s === 'string' && isValidRegex(s));
+  }
+  if (user.discretizeMethod === null) analysis.discretizeMethod = null;
+  else if ((DISCRETIZE_METHODS as readonly unknown[]).includes(user.discretizeMethod)) {
+    analysis.discretizeMethod = user.discretizeMethod as AnalysisSettings['discretizeMethod'];
+  }
+  // Both `{ codeLens: { enabled } }` and a flat `"codeLens.enabled"` key are accepted:
+  // editors differ in whether they expand dotted keys.
+  let codeLensEnabled = true;
+  const nested = user.codeLens?.enabled;
+  const flat = user['codeLens.enabled'];
+  if (typeof nested === 'boolean') codeLensEnabled = nested;
+  else if (typeof flat === 'boolean') codeLensEnabled = flat;
+  return { analysis, codeLensEnabled };
+}
+
+function isValidRegex(source: string): boolean {
+  try {
+    new RegExp(source);
+    return true;
+  } catch {
+    return false;
+  }
+}

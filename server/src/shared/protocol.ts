@@ -1,0 +1,71 @@
+/**
+ * Names shared by the language server and the editor client: setting keys, command ids and
+ * custom request methods. The VS Code client imports only this file from the server, so it
+ * holds constants and plain types, nothing that pulls in server code.
+ */
+
+/** Configuration section; every setting key below lives under it (`eigenlens.precision`). */
+export const SETTINGS_SECTION = 'eigenlens';
+
+/** Setting keys relative to SETTINGS_SECTION. */
+export const SettingKeys = {
+  defaultDomain: 'defaultDomain',
+  defaultPeriod: 'defaultPeriod',
+  precision: 'precision',
+  closedFormMaxN: 'closedFormMaxN',
+  lightDampingThreshold: 'lightDampingThreshold',
+  codeLensEnabled: 'codeLens.enabled',
+  stateMatrixNames: 'stateMatrixNames',
+  discretizeMethod: 'discretizeMethod',
+} as const;
+
+/** The settings as the client sends them (`workspace/configuration` for section `eigenlens`). */
+export interface EigenlensUserSettings {
+  defaultDomain?: 'continuous' | 'discrete';
+  defaultPeriod?: number | null;
+  precision?: number;
+  closedFormMaxN?: number;
+  lightDampingThreshold?: number;
+  codeLens?: { enabled?: boolean };
+  stateMatrixNames?: string[];
+  discretizeMethod?: 'zoh' | 'tustin' | 'euler' | 'backward-euler' | 'foh' | null;
+}
+
+/**
+ * Commands. The first three ids are the ones the manifest declares (client-side, handled by
+ * the editor extension). The server executes only SERVER_COMMANDS, under ids of their own so
+ * the client's registration of the manifest ids never collides with the language client's.
+ */
+export const Commands = {
+  /** Client: args [uri, matrixIndex?] — request `eigenlens/report` and show it read-only. */
+  showFullAnalysis: 'eigenlens.showFullAnalysis',
+  /** Client: args [text] — copy the transition matrix text to the clipboard. */
+  copyTransitionMatrix: 'eigenlens.copyTransitionMatrix',
+  /** Client (palette): forwards to serverSwitchDomain with the active document and cursor. */
+  switchDomain: 'eigenlens.switchDomain',
+  /**
+   * Server: args [uri, matrixIndex, domain?] — insert or rewrite the domain pragma of that
+   * matrix; domain omitted = the other one. Applied through workspace/applyEdit.
+   */
+  serverSwitchDomain: 'eigenlens.server.switchDomain',
+} as const;
+
+/** Server-side commands the server announces in executeCommandProvider. */
+export const SERVER_COMMANDS: readonly string[] = [Commands.serverSwitchDomain];
+
+/** Custom request: the full analysis of one matrix (or the whole document) as Markdown. */
+export const ReportRequestMethod = 'eigenlens/report';
+
+export interface ReportRequestParams {
+  uri: string;
+  /** MatrixReport.index; omitted = every state matrix of the document. */
+  matrixIndex?: number;
+}
+
+export interface ReportRequestResult {
+  title: string;
+  markdown: string;
+}
+
+/** Source name on every diagnostic the server publishes. */
+export const DIAGNOSTIC_SOURCE = 'eigenlens';
