@@ -73,6 +73,8 @@ export interface MatrixLiteral {
   /** Grouping key derived from the name suffix (A_cl → "cl") or the .lti system name. */
   groupKey: string;
   pragma: Pragma | null;
+  /** Full left-hand side when it is more than the name (`self.A`, `sys.A` for an object property). */
+  qualifiedName?: string;
 }
 
 /** A constant resolved from an earlier assignment (`m = 1.5`, `const k = 40;`, `param g = 9.81`). */

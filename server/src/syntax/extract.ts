@@ -1,0 +1,66 @@
+/**
+ * Entry point of the syntax layer: `initParsers` once, then `extract` per document.
+ * `extract` is synchronous and never throws: any internal failure becomes a Problem.
+ */
+import { extractLti } from './lti';
+import { extractPython } from './python';
+import { compileNamePatterns } from './roles';
+import { loadedParsers, loadParsers } from './treeSitter';
+import { extractTypeScript } from './typescript';
+import type { ExtractedFile, SourceLanguage } from './types';
+
+export interface ExtractOptions {
+  /** Extra state-matrix names, as regular expressions matched against the whole name. */
+  stateMatrixNames?: string[];
+}
+
+/** Loads the parsers (idempotent). `wasmDir` overrides where the .wasm files are looked for. */
+export async function initParsers(opts?: { wasmDir?: string }): Promise<void> {
+  await loadParsers(opts?.wasmDir);
+}
+
+function emptyFile(language: SourceLanguage): ExtractedFile {
+  return { language, matrices: [], constants: [], filePragma: null, problems: [], systems: [] };
+}
+
+export function extract(text: string, language: SourceLanguage, opts?: ExtractOptions): ExtractedFile {
+  try {
+    const patterns = compileNamePatterns(opts?.stateMatrixNames);
+    if (language === 'lti') return extractLti(text, patterns);
+    const parsers = loadedParsers();
+    if (!parsers) {
+      const file = emptyFile(language);
+      file.problems.push({
+        span: { start: 0, end: 0 },
+        severity: 'error',
+        code: 'parser-not-ready',
+        message: 'The source parsers are not loaded yet (initParsers was not awaited).',
+      });
+      return file;
+    }
+    const parser = language === 'python' ? parsers.python : parsers.typescript;
+    const tree = parser.parse(text);
+    if (!tree) {
+      const file = emptyFile(language);
+      file.problems.push({ span: { start: 0, end: 0 }, severity: 'error', code: 'parse-failed', message: 'The file could not be parsed.' });
+      return file;
+    }
+    try {
+      if (language === 'python') return extractPython(text, tree, patterns);
+      const file = extractTypeScript(text, tree, patterns);
+      file.language = language;
+      return file;
+    } finally {
+      tree.delete();
+    }
+  } catch (err) {
+    const file = emptyFile(language);
+    file.problems.push({
+      span: { start: 0, end: 0 },
+      severity: 'error',
+      code: 'internal-error',
+      message: `eigenlens could not read this file: ${String((err as Error)?.message ?? err)}`,
+    });
+    return file;
+  }
+}

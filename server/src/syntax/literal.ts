@@ -1,0 +1,269 @@
+/**
+ * Builds a MatrixLiteral from the nested-list shape an extractor found (language-neutral),
+ * and attaches pragma comments to statements by line position.
+ *
+ * Shape rules (documented for users):
+ *  - a list of lists is a matrix, one inner list per row; every row must have as many
+ *    entries as the first (`ragged-rows` error at the offending row otherwise);
+ *  - a flat list is a 1×n row, except for input (B) and noise-input (G) roles, where it is an
+ *    n×1 column, because a single-input B is conventionally written as a list of gains;
+ *  - lists nested three deep are `not-a-matrix`.
+ * "Strict" literals (names with a role, array calls, pragma-marked) report every problem;
+ * other literals become matrices only when they are entirely numeric, and are otherwise
+ * ignored silently (e.g. `names = [["a", "b"]]` is neither a matrix nor an error).
+ * A literal with shape errors is not returned as a matrix (only its problems are), so
+ * every MatrixLiteral handed on is rectangular.
+ */
+import { evaluateEntry } from './evaluate';
+import { isPragmaComment, mergePragmas, parsePragma } from './pragma';
+import type { NameRole } from './roles';
+import type { EntryValue, MatrixEntry, MatrixLiteral, Pragma, Problem, SourceLanguage, Span } from './types';
+
+/** A list (items non-null) or a leaf entry (items null) found by an extractor. */
+export interface LiteralNode {
+  span: Span;
+  items: LiteralNode[] | null;
+  /** Leaves that are obviously not numbers, so lenient literals can be skipped without evaluating. */
+  obviouslyNonNumeric?: boolean;
+}
+
+export interface LiteralInput {
+  name: string | null;
+  qualifiedName?: string;
+  nameSpan: Span | null;
+  /** Whole literal: the outer bracket, or the array call. */
+  span: Span;
+  statementSpan: Span;
+  top: LiteralNode;
+  nameRole: NameRole | null;
+  pragma: Pragma | null;
+  /** True for `np.array(...)`-style calls: a flat list is still a matrix. */
+  arrayCall: boolean;
+  /** Group key to use instead of the name's own (object properties: the object's name). */
+  groupKeyOverride?: string;
+}
+
+export function buildMatrix(
+  text: string,
+  lang: SourceLanguage,
+  scope: ReadonlyMap<string, EntryValue>,
+  input: LiteralInput,
+  problems: Problem[],
+): MatrixLiteral | null {
+  const { top, pragma, nameRole } = input;
+  if (pragma?.ignore) return null;
+  const role = pragma?.role ?? nameRole?.role ?? 'unknown';
+  const strict = role !== 'unknown' || pragma !== null || input.arrayCall;
+  const items = top.items ?? [];
+  if (items.length === 0) return null;
+  const local: Problem[] = [];
+  const error = (span: Span, code: string, message: string) => local.push({ span, severity: 'error', code, message });
+
+  const firstIsList = items[0].items !== null;
+  const mixed = items.find((it) => (it.items !== null) !== firstIsList);
+  if (mixed) {
+    if (!strict) return null;
+    error(mixed.span, 'ragged-rows', firstIsList ? 'This entry is not a row: every row must be a list.' : 'A list mixed with plain entries: write every row as a list.');
+    problems.push(...local);
+    return null;
+  }
+
+  let rowNodes: LiteralNode[][];
+  let rowSpans: Span[];
+  if (!firstIsList) {
+    if (!strict && !input.arrayCall) return null;
+    if (role === 'input' || role === 'noise-input') {
+      rowNodes = items.map((it) => [it]);
+      rowSpans = items.map((it) => it.span);
+    } else {
+      rowNodes = [items];
+      rowSpans = [top.span];
+    }
+  } else {
+    rowNodes = items.map((row) => row.items ?? []);
+    rowSpans = items.map((row) => row.span);
+    const nCols = rowNodes[0].length;
+    for (let r = 0; r < rowNodes.length; r++) {
+      const deep = rowNodes[r].find((e) => e.items !== null);
+      if (deep) {
+        if (!strict) return null;
+        error(deep.span, 'not-a-matrix', 'Lists nested three deep are not a matrix: each row must hold plain entries.');
+      }
+      if (rowNodes[r].length !== nCols) {
+        if (!strict) return null;
+        error(
+          rowSpans[r],
+          'ragged-rows',
+          `Row ${r + 1} has ${rowNodes[r].length} entr${rowNodes[r].length === 1 ? 'y' : 'ies'} but row 1 has ${nCols}: all rows of a matrix need the same length.`,
+        );
+      }
+    }
+    if (nCols === 0) {
+      if (strict && local.length === 0) error(top.span, 'empty-matrix', 'The matrix has no columns.');
+      problems.push(...local);
+      return null;
+    }
+    if (local.length > 0) {
+      problems.push(...local);
+      return null;
+    }
+  }
+
+  if (!strict && rowNodes.some((row) => row.some((e) => e.obviouslyNonNumeric))) return null;
+
+  let exact = true;
+  const rows: MatrixEntry[][] = [];
+  for (const row of rowNodes) {
+    const out: MatrixEntry[] = [];
+    for (const node of row) {
+      const entryText = text.slice(node.span.start, node.span.end);
+      const r = evaluateEntry(entryText, scope, lang);
+      if ('error' in r) {
+        if (!strict) return null;
+        const s = node.span.start + r.error.start;
+        error({ start: s, end: Math.max(node.span.start + r.error.end, s) }, r.error.code, r.error.message);
+        out.push({ span: node.span, text: entryText, value: null });
+        exact = false;
+      } else {
+        if (r.value.kind !== 'exact') exact = false;
+        out.push({ span: node.span, text: entryText, value: r.value });
+      }
+    }
+    rows.push(out);
+  }
+  problems.push(...local);
+  const matrix: MatrixLiteral = {
+    name: input.name,
+    nameSpan: input.nameSpan,
+    span: input.span,
+    statementSpan: input.statementSpan,
+    rows,
+    rowSpans,
+    nRows: rows.length,
+    nCols: rows[0].length,
+    exact,
+    role,
+    groupKey: pragma?.model ?? input.groupKeyOverride ?? nameRole?.groupKey ?? '',
+    pragma,
+  };
+  if (input.qualifiedName !== undefined && input.qualifiedName !== input.name) matrix.qualifiedName = input.qualifiedName;
+  return matrix;
+}
+
+// ---------------------------------------------------------------------------------------
+// Pragma attachment by line
+
+export interface CommentSpan {
+  start: number;
+  end: number;
+}
+
+/** Line starts of a text, for offset → line lookups. */
+export class LineIndex {
+  readonly starts: number[] = [0];
+  constructor(readonly text: string) {
+    for (let i = 0; i < text.length; i++) if (text.charCodeAt(i) === 10) this.starts.push(i + 1);
+  }
+  lineOf(offset: number): number {
+    let lo = 0;
+    let hi = this.starts.length - 1;
+    while (lo < hi) {
+      const mid = (lo + hi + 1) >> 1;
+      if (this.starts[mid] <= offset) lo = mid;
+      else hi = mid - 1;
+    }
+    return lo;
+  }
+  lineText(line: number): string {
+    const end = line + 1 < this.starts.length ? this.starts[line + 1] - 1 : this.text.length;
+    return this.text.slice(this.starts[line], end).replace(/\r$/, '');
+  }
+}
+
+/**
+ * Finds pragma comments in a text and attaches them to statements. `isComment(offset)` lets
+ * the caller confirm with its syntax tree that an occurrence really is inside a comment.
+ */
+export class PragmaAttacher {
+  private readonly byLine = new Map<number, CommentSpan>();
+  private readonly used = new Set<number>();
+  readonly lines: LineIndex;
+
+  constructor(
+    private readonly text: string,
+    private readonly lang: SourceLanguage,
+    isComment: (offset: number) => CommentSpan | null,
+    private readonly firstCodeOffset: number,
+    private readonly problems: Problem[],
+  ) {
+    this.lines = new LineIndex(text);
+    let from = 0;
+    for (;;) {
+      const at = text.indexOf('eigenlens', from);
+      if (at < 0) break;
+      from = at + 9;
+      const comment = isComment(at);
+      if (!comment || !isPragmaComment(text.slice(comment.start, comment.end))) continue;
+      const line = this.lines.lineOf(comment.start);
+      if (!this.byLine.has(line)) this.byLine.set(line, comment);
+      from = Math.max(from, comment.end);
+    }
+  }
+
+  get hasPragmas(): boolean {
+    return this.byLine.size > 0;
+  }
+
+  private parse(c: CommentSpan, scope: ReadonlyMap<string, EntryValue>): Pragma | null {
+    const parsed = parsePragma(this.text.slice(c.start, c.end), c.start, scope, this.lang);
+    if (!parsed) return null;
+    this.problems.push(...parsed.problems);
+    return parsed.pragma;
+  }
+
+  private isCommentOnlyLine(line: number): boolean {
+    const t = this.lines.lineText(line).trim();
+    return this.lang === 'python' || this.lang === 'lti' ? t.startsWith('#') : t.startsWith('//') || t.startsWith('/*') || t.startsWith('*');
+  }
+
+  /** The pragma for a statement starting at `statementStart` and ending at `statementEnd`, if any. */
+  attach(statementStart: number, scope: ReadonlyMap<string, EntryValue>): Pragma | null {
+    if (this.byLine.size === 0) return null;
+    const line = this.lines.lineOf(statementStart);
+    const found: CommentSpan[] = [];
+    for (let l = line - 1; l >= 0 && this.isCommentOnlyLine(l); l--) {
+      const c = this.byLine.get(l);
+      if (c && !this.used.has(c.start) && this.text.slice(this.lines.starts[l], c.start).trim() === '') found.unshift(c);
+    }
+    const sameLine = this.byLine.get(line);
+    if (sameLine && sameLine.start > statementStart && !this.used.has(sameLine.start)) found.push(sameLine);
+    const pragmas: Pragma[] = [];
+    for (const c of found) {
+      this.used.add(c.start);
+      const p = this.parse(c, scope);
+      if (p) pragmas.push(p);
+    }
+    return mergePragmas(pragmas);
+  }
+
+  /** After all statements: the file pragma (first unattached pragma before any code) and stray-pragma warnings. */
+  finish(): Pragma | null {
+    let filePragma: Pragma | null = null;
+    const rest = [...this.byLine.values()].filter((c) => !this.used.has(c.start)).sort((a, b) => a.start - b.start);
+    for (const c of rest) {
+      if (c.start < this.firstCodeOffset) {
+        const p = this.parse(c, new Map());
+        if (p) filePragma = filePragma ? mergePragmas([filePragma, p]) : p;
+      } else {
+        this.parse(c, new Map());
+        this.problems.push({
+          span: { start: c.start, end: c.end },
+          severity: 'warning',
+          code: 'stray-pragma',
+          message: 'This pragma applies to nothing: put it directly above a matrix, at the end of its first line, or before any code for the whole file.',
+        });
+      }
+    }
+    return filePragma;
+  }
+}

@@ -1,0 +1,191 @@
+/**
+ * Python extractor: walks the tree-sitter-python syntax tree in document order, resolving
+ * scalar constants (`m = 1.5`, `self.k = m*g`) and collecting matrix literals assigned to
+ * names: `A = [[…]]`, `A = np.array([[…]], dtype=float)` (numpy/np/jnp array, asarray,
+ * matrix), `A: np.ndarray = …`, `self.A = …`, and dictionary values `sys = {"A": [[…]]}`
+ * (name = key, grouped by the dictionary's name).
+ *
+ * Invariants: only statements are visited (not expressions), so the walk is linear in the
+ * number of statements; constants apply only to statements after them (a failed
+ * re-assignment forgets the old value, so no stale value is used). Strings and comments
+ * are never matrices because they are separate node kinds in the tree.
+ */
+import type { Node, Tree } from 'web-tree-sitter';
+import { buildMatrix, PragmaAttacher, type LiteralNode } from './literal';
+import { evaluateEntry } from './evaluate';
+import { roleFromName } from './roles';
+import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
+
+const CONTAINERS = new Set([
+  'module', 'block', 'if_statement', 'elif_clause', 'else_clause', 'for_statement', 'while_statement', 'try_statement',
+  'except_clause', 'except_group_clause', 'finally_clause', 'with_statement', 'function_definition', 'class_definition',
+  'decorated_definition', 'match_statement', 'case_clause',
+]);
+
+const ARRAY_FUNCTIONS = new Set([
+  'np.array', 'numpy.array', 'np.asarray', 'numpy.asarray', 'jnp.array', 'jnp.asarray', 'np.matrix', 'numpy.matrix',
+  'np.asmatrix', 'numpy.asmatrix', 'array', 'asarray', 'matrix',
+]);
+
+const NON_NUMERIC_LEAVES = new Set([
+  'string', 'concatenated_string', 'true', 'false', 'none', 'dictionary', 'set', 'lambda', 'list_comprehension',
+  'dictionary_comprehension', 'set_comprehension', 'generator_expression', 'list_splat', 'ellipsis', 'await',
+]);
+
+const SCALAR_KINDS = new Set(['integer', 'float', 'unary_operator', 'binary_operator', 'parenthesized_expression', 'identifier', 'attribute', 'call']);
+
+function spanOf(n: Node): Span {
+  return { start: n.startIndex, end: n.endIndex };
+}
+
+function namedKids(n: Node): Node[] {
+  const out: Node[] = [];
+  for (let i = 0; i < n.namedChildCount; i++) {
+    const c = n.namedChild(i);
+    if (c && c.type !== 'comment') out.push(c);
+  }
+  return out;
+}
+
+function toLiteralNode(n: Node): LiteralNode {
+  if (n.type === 'list' || n.type === 'tuple') return { span: spanOf(n), items: namedKids(n).map(toLiteralNode) };
+  return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(n.type) };
+}
+
+/** The list inside `np.array([...], dtype=float)`, or the list itself. */
+function literalOf(right: Node): { top: Node; arrayCall: boolean } | null {
+  if (right.type === 'list') return { top: right, arrayCall: false };
+  if (right.type === 'call') {
+    const fn = right.childForFieldName('function');
+    const args = right.childForFieldName('arguments');
+    if (!fn || !args || !ARRAY_FUNCTIONS.has(fn.text)) return null;
+    const first = namedKids(args).find((a) => a.type !== 'keyword_argument');
+    if (first && (first.type === 'list' || first.type === 'tuple')) return { top: first, arrayCall: true };
+  }
+  return null;
+}
+
+export function extractPython(text: string, tree: Tree, extraStatePatterns: RegExp[]): ExtractedFile {
+  const problems: Problem[] = [];
+  const matrices: MatrixLiteral[] = [];
+  const constants: Constant[] = [];
+  const scope = new Map<string, EntryValue>();
+  const root = tree.rootNode;
+  const firstCode = namedKids(root)[0];
+  const attacher = new PragmaAttacher(
+    text,
+    'python',
+    (offset) => {
+      const n = root.descendantForIndex(offset);
+      return n && n.type === 'comment' ? spanOf(n) : null;
+    },
+    firstCode ? firstCode.startIndex : text.length,
+    problems,
+  );
+
+  const forget = (target: Node) => {
+    if (target.type === 'identifier' || target.type === 'attribute') scope.delete(target.text);
+    else for (const c of namedKids(target)) forget(c);
+  };
+
+  const addMatrix = (
+    statement: Node,
+    name: string,
+    qualifiedName: string,
+    nameSpan: Span,
+    literal: { top: Node; arrayCall: boolean },
+    whole: Node,
+    groupKeyOverride?: string,
+  ) => {
+    const pragma = attacher.attach(statement.startIndex, scope);
+    const m = buildMatrix(
+      text,
+      'python',
+      scope,
+      {
+        name,
+        qualifiedName,
+        nameSpan,
+        span: spanOf(whole),
+        statementSpan: spanOf(statement),
+        top: toLiteralNode(literal.top),
+        nameRole: roleFromName(name, extraStatePatterns),
+        pragma,
+        arrayCall: literal.arrayCall,
+        groupKeyOverride,
+      },
+      problems,
+    );
+    if (m) matrices.push(m);
+  };
+
+  const handleAssignment = (a: Node, statement: Node) => {
+    const left = a.childForFieldName('left');
+    const right = a.childForFieldName('right');
+    if (!left || !right) return;
+    if (right.type === 'assignment') {
+      handleAssignment(right, statement);
+      forget(left);
+      return;
+    }
+    if (left.type !== 'identifier' && left.type !== 'attribute') {
+      forget(left);
+      return;
+    }
+    const qualifiedName = left.text;
+    const nameNode = left.type === 'attribute' ? left.childForFieldName('attribute') : left;
+    if (!nameNode) return;
+    const literal = literalOf(right);
+    if (literal) {
+      scope.delete(qualifiedName);
+      addMatrix(statement, nameNode.text, qualifiedName, spanOf(nameNode), literal, right);
+      return;
+    }
+    if (right.type === 'dictionary') {
+      scope.delete(qualifiedName);
+      for (const pair of namedKids(right)) {
+        if (pair.type !== 'pair') continue;
+        const key = pair.childForFieldName('key');
+        const value = pair.childForFieldName('value');
+        if (!key || !value || key.type !== 'string') continue;
+        const content = namedKids(key).find((k) => k.type === 'string_content');
+        const lit = literalOf(value);
+        if (!content || !lit || !roleFromName(content.text, extraStatePatterns)) continue;
+        addMatrix(statement, content.text, `${qualifiedName}[${key.text}]`, spanOf(content), lit, value, nameNode.text);
+      }
+      return;
+    }
+    if (SCALAR_KINDS.has(right.type)) {
+      const r = evaluateEntry(right.text, scope, 'python');
+      if ('value' in r) {
+        scope.set(qualifiedName, r.value);
+        constants.push({ name: qualifiedName, span: spanOf(left), value: r.value });
+        return;
+      }
+    }
+    scope.delete(qualifiedName);
+  };
+
+  // Document-order walk over statements with an explicit stack (deeply nested code cannot overflow).
+  const stack: Node[] = [root];
+  while (stack.length > 0) {
+    const node = stack.pop()!;
+    if (node.type === 'expression_statement') {
+      for (const c of namedKids(node)) {
+        if (c.type === 'assignment') handleAssignment(c, node);
+        else if (c.type === 'augmented_assignment') {
+          const target = c.childForFieldName('left');
+          if (target) forget(target);
+        }
+      }
+      continue;
+    }
+    // Only statement containers are entered; expressions are never walked.
+    if (node !== root && !CONTAINERS.has(node.type)) continue;
+    const kids = namedKids(node);
+    for (let i = kids.length - 1; i >= 0; i--) stack.push(kids[i]);
+  }
+
+  const filePragma = attacher.finish();
+  return { language: 'python', matrices, constants, filePragma, problems, systems: [] };
+}
