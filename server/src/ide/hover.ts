@@ -105,7 +105,10 @@ function stateMarkdown(matrix: MatrixReport, precision: number): string {
     const notes: string[] = [];
     if (spectrum.defective) notes.push('The matrix is **defective** (fewer independent eigenvectors than its size): the response has polynomial-times-exponential terms, and eigenvector-based methods do not apply.');
     for (const near of spectrum.nearRepeated) {
-      notes.push(`Eigenvalues ${formatNumber(near.a, precision)} and ${formatNumber(near.b, precision)} are **nearly repeated** (relative separation ${formatNumber(near.separation, 2)}): a closed form built from them is ill-conditioned.`);
+      const a = spectrum.eigenvalues[near.a];
+      const b = spectrum.eigenvalues[near.b];
+      const pairText = a && b ? `λ = ${eigenvalueText(a, precision, false)} and λ = ${eigenvalueText(b, precision, false)}` : 'Two eigenvalues';
+      notes.push(`${pairText} are **nearly repeated** (relative separation ${formatNumber(near.separation, 2)}): a closed form built from them is ill-conditioned.`);
     }
     if (!spectrum.exact) notes.push(`Multiplicities are numerical${spectrum.clusterTolerance !== null ? ` (eigenvalues within ${formatNumber(spectrum.clusterTolerance, 2)} counted as one)` : ''}.`);
     for (const note of spectrum.notes) notes.push(note);

@@ -1,0 +1,72 @@
+/**
+ * The one converter between our plain data (UTF-16 offsets, our severities, Markdown text)
+ * and LSP types. TextDocument does the offset ↔ Position work, so surrogate pairs and CRLF
+ * line ends are handled the way every LSP client expects (UTF-16 code units).
+ */
+import {
+  CodeAction,
+  CodeActionKind,
+  CodeLens,
+  Diagnostic,
+  DiagnosticSeverity,
+  type Hover,
+  MarkupKind,
+  type Range,
+  TextEdit as LspTextEdit,
+  type WorkspaceEdit,
+} from 'vscode-languageserver/node';
+import type { TextDocument } from 'vscode-languageserver-textdocument';
+import type { Severity, Span } from '../syntax/types';
+import type { PlainDiagnostic } from '../ide/diagnostics';
+import type { PlainLens } from '../ide/lens';
+import { ACTION_KINDS, type PlainCodeAction } from '../ide/actions';
+import type { TextEdit } from '../ide/edits';
+import type { HoverResult } from '../ide/hover';
+
+export function toRange(doc: TextDocument, span: Span): Range {
+  return { start: doc.positionAt(span.start), end: doc.positionAt(span.end) };
+}
+
+export function toSpan(doc: TextDocument, range: Range): Span {
+  return { start: doc.offsetAt(range.start), end: doc.offsetAt(range.end) };
+}
+
+const SEVERITIES: Record<Severity, DiagnosticSeverity> = {
+  error: DiagnosticSeverity.Error,
+  warning: DiagnosticSeverity.Warning,
+  information: DiagnosticSeverity.Information,
+  hint: DiagnosticSeverity.Hint,
+};
+
+export function toDiagnostic(doc: TextDocument, d: PlainDiagnostic): Diagnostic {
+  const diagnostic = Diagnostic.create(toRange(doc, d.span), d.message, SEVERITIES[d.severity], d.code, d.source);
+  if (d.data !== undefined || d.matrixIndex !== null) diagnostic.data = { ...(d.data ?? {}), matrixIndex: d.matrixIndex };
+  return diagnostic;
+}
+
+export function toHover(doc: TextDocument, h: HoverResult): Hover {
+  return { contents: { kind: MarkupKind.Markdown, value: h.markdown }, range: toRange(doc, h.span) };
+}
+
+export function toLens(doc: TextDocument, lens: PlainLens): CodeLens {
+  const args = lens.needsUri ? [doc.uri, ...lens.args] : lens.args;
+  return CodeLens.create(toRange(doc, lens.span), { title: lens.title, command: lens.command, arguments: args });
+}
+
+export function toTextEdits(doc: TextDocument, edits: TextEdit[]): LspTextEdit[] {
+  return edits.map((e) => LspTextEdit.replace(toRange(doc, e.span), e.newText));
+}
+
+export function toWorkspaceEdit(doc: TextDocument, edits: TextEdit[]): WorkspaceEdit {
+  return {
+    documentChanges: [{ textDocument: { uri: doc.uri, version: doc.version }, edits: toTextEdits(doc, edits) }],
+  };
+}
+
+export function toCodeAction(doc: TextDocument, action: PlainCodeAction, contextDiagnostics: Diagnostic[]): CodeAction {
+  const kind = action.kind === 'quickfix' ? CodeActionKind.QuickFix : ACTION_KINDS[action.kind];
+  const result = CodeAction.create(action.title, toWorkspaceEdit(doc, action.edits), kind);
+  if (action.fixes.length) result.diagnostics = contextDiagnostics.filter((d) => typeof d.code === 'string' && action.fixes.includes(d.code));
+  if (action.isPreferred) result.isPreferred = true;
+  return result;
+}

@@ -1,0 +1,277 @@
+/**
+ * The language server's wiring: connection, documents, settings, the analysis cache and the
+ * handlers. Each handler converts LSP input to our plain terms, calls one ide/ function and
+ * converts the answer back; nothing here computes anything about matrices.
+ *
+ * - Documents sync incrementally; each change restarts a per-document debounce, after which
+ *   diagnostics are published for that version only (a newer edit drops the older result).
+ * - Hovers, lenses and actions never wait for the debounce: they analyse on demand, through
+ *   the same per-version report cache, and matrix analyses are shared by content hash.
+ * - Settings are pulled per resource (workspace/configuration) and cached per document until
+ *   workspace/didChangeConfiguration.
+ * - Every handler is guarded: an exception becomes one log line and an empty answer.
+ */
+import {
+  CodeActionKind,
+  type Connection,
+  createConnection,
+  type Diagnostic,
+  DidChangeConfigurationNotification,
+  ProposedFeatures,
+  TextDocuments,
+  TextDocumentSyncKind,
+  type CancellationToken,
+} from 'vscode-languageserver/node';
+import { TextDocument } from 'vscode-languageserver-textdocument';
+import { AnalysisCache, analyzeDocument, initAnalysis } from '../analysis/analyze';
+import type { DocumentReport } from '../analysis/report';
+import type { SourceLanguage } from '../syntax/types';
+import { Commands, ReportRequestMethod, SERVER_COMMANDS, SETTINGS_SECTION, type ReportRequestParams, type ReportRequestResult } from '../shared/protocol';
+import { DEFAULT_IDE_SETTINGS, settingsFromUser, type IdeSettings } from '../ide/settings';
+import { hoverAt } from '../ide/hover';
+import { lensesOf } from '../ide/lens';
+import { diagnosticsOf } from '../ide/diagnostics';
+import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
+import { domainEdit } from '../ide/pragmaEdit';
+import { reportMarkdown } from '../ide/report';
+import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
+
+/** Diagnostics wait this long after the last keystroke (common practice for linters: 100–300 ms). */
+export const DIAGNOSTIC_DEBOUNCE_MS = 150;
+
+const LANGUAGE_IDS: Record<string, SourceLanguage> = {
+  python: 'python',
+  typescript: 'typescript',
+  typescriptreact: 'typescript',
+  javascript: 'javascript',
+  javascriptreact: 'javascript',
+  lti: 'lti',
+};
+
+const EXTENSIONS: [RegExp, SourceLanguage][] = [
+  [/\.pyi?$/i, 'python'],
+  [/\.(ts|tsx|mts|cts)$/i, 'typescript'],
+  [/\.(js|jsx|mjs|cjs)$/i, 'javascript'],
+  [/\.lti$/i, 'lti'],
+];
+
+export function languageOf(doc: TextDocument): SourceLanguage | null {
+  const byId = LANGUAGE_IDS[doc.languageId];
+  if (byId) return byId;
+  for (const [pattern, language] of EXTENSIONS) if (pattern.test(doc.uri)) return language;
+  return null;
+}
+
+interface CachedReport {
+  version: number;
+  settings: IdeSettings;
+  report: DocumentReport;
+}
+
+export function startServer(connection: Connection = createConnection(ProposedFeatures.all)): void {
+  const documents = new TextDocuments(TextDocument);
+  const matrixCache = new AnalysisCache();
+  const reports = new Map<string, CachedReport>();
+  const settingsCache = new Map<string, Promise<IdeSettings>>();
+  const timers = new Map<string, NodeJS.Timeout>();
+  let canPullConfiguration = false;
+  let canRegisterConfigurationChange = false;
+  let pushedSettings: IdeSettings = DEFAULT_IDE_SETTINGS;
+  let ready: Promise<void> = Promise.resolve();
+
+  const log = (message: string) => {
+    try {
+      connection.console.error(`eigenlens: ${message}`);
+    } catch {
+      // The connection itself may be gone; nothing more to do.
+    }
+  };
+
+  /** Runs a handler; an exception becomes a log line and the fallback answer. */
+  function guarded<P extends unknown[], R>(name: string, fallback: R, handler: (...args: P) => R | Promise<R>): (...args: P) => Promise<R> {
+    return async (...args: P) => {
+      try {
+        return await handler(...args);
+      } catch (err) {
+        log(`${name} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
+        return fallback;
+      }
+    };
+  }
+
+  function settingsFor(uri: string): Promise<IdeSettings> {
+    if (!canPullConfiguration) return Promise.resolve(pushedSettings);
+    let pending = settingsCache.get(uri);
+    if (!pending) {
+      pending = connection.workspace
+        .getConfiguration({ scopeUri: uri, section: SETTINGS_SECTION })
+        .then(settingsFromUser, (err: unknown) => {
+          log(`could not read settings for ${uri}: ${String(err)}`);
+          return DEFAULT_IDE_SETTINGS;
+        });
+      settingsCache.set(uri, pending);
+    }
+    return pending;
+  }
+
+  /** The report for the document's current version, computed at most once per version and settings. */
+  async function reportFor(doc: TextDocument, token?: CancellationToken): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
+    await ready;
+    const language = languageOf(doc);
+    if (!language) return null;
+    const settings = await settingsFor(doc.uri);
+    const current = documents.get(doc.uri);
+    if (!current || current.version !== doc.version || token?.isCancellationRequested) return null;
+    const cached = reports.get(doc.uri);
+    if (cached && cached.version === doc.version && cached.settings === settings) return { report: cached.report, settings };
+    const report = analyzeDocument(doc.getText(), language, settings.analysis, {
+      cache: matrixCache,
+      isCancelled: () => token?.isCancellationRequested === true,
+    });
+    if (token?.isCancellationRequested) return null;
+    reports.set(doc.uri, { version: doc.version, settings, report });
+    return { report, settings };
+  }
+
+  async function publishDiagnostics(uri: string): Promise<void> {
+    const doc = documents.get(uri);
+    if (!doc) return;
+    const result = await reportFor(doc);
+    const latest = documents.get(uri);
+    // A newer version arrived while we waited: its own debounce will publish.
+    if (!result || !latest || latest.version !== doc.version) return;
+    const diagnostics: Diagnostic[] = diagnosticsOf(result.report).map((d) => toDiagnostic(doc, d));
+    await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
+  }
+
+  function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
+    const previous = timers.get(uri);
+    if (previous) clearTimeout(previous);
+    timers.set(
+      uri,
+      setTimeout(() => {
+        timers.delete(uri);
+        void guarded('diagnostics', undefined, publishDiagnostics)(uri);
+      }, delay),
+    );
+  }
+
+  connection.onInitialize((params) => {
+    const workspace = params.capabilities.workspace;
+    canPullConfiguration = workspace?.configuration === true;
+    canRegisterConfigurationChange = workspace?.didChangeConfiguration?.dynamicRegistration === true;
+    ready = initAnalysis().catch((err: unknown) => log(`the source parsers did not load: ${String(err)}`));
+    return {
+      capabilities: {
+        textDocumentSync: { openClose: true, change: TextDocumentSyncKind.Incremental },
+        hoverProvider: true,
+        codeLensProvider: { resolveProvider: false },
+        codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix, CodeActionKind.RefactorRewrite, ACTION_KINDS.source] },
+        executeCommandProvider: { commands: [...SERVER_COMMANDS] },
+      },
+      serverInfo: { name: 'eigenlens' },
+    };
+  });
+
+  connection.onInitialized(() => {
+    if (canRegisterConfigurationChange) {
+      void connection.client.register(DidChangeConfigurationNotification.type, { section: SETTINGS_SECTION }).catch(() => undefined);
+    }
+  });
+
+  connection.onDidChangeConfiguration(
+    guarded('configuration', undefined, (change) => {
+      settingsCache.clear();
+      reports.clear();
+      const pushed = (change.settings as Record<string, unknown> | null | undefined)?.[SETTINGS_SECTION];
+      pushedSettings = pushed !== undefined ? settingsFromUser(pushed) : DEFAULT_IDE_SETTINGS;
+      for (const doc of documents.all()) scheduleDiagnostics(doc.uri, 0);
+      connection.sendRequest('workspace/codeLens/refresh').catch(() => undefined);
+    }),
+  );
+
+  documents.onDidOpen((e) => scheduleDiagnostics(e.document.uri, 0));
+  documents.onDidChangeContent((e) => scheduleDiagnostics(e.document.uri));
+  documents.onDidClose(
+    guarded('close', undefined, (e) => {
+      const timer = timers.get(e.document.uri);
+      if (timer) clearTimeout(timer);
+      timers.delete(e.document.uri);
+      reports.delete(e.document.uri);
+      settingsCache.delete(e.document.uri);
+      void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
+    }),
+  );
+
+  connection.onHover(
+    guarded('hover', null, async (params, token) => {
+      const doc = documents.get(params.textDocument.uri);
+      if (!doc) return null;
+      const result = await reportFor(doc, token);
+      if (!result) return null;
+      const hover = hoverAt(result.report, doc.getText(), doc.offsetAt(params.position), result.settings.analysis);
+      return hover ? toHover(doc, hover) : null;
+    }),
+  );
+
+  connection.onCodeLens(
+    guarded('codeLens', [], async (params, token) => {
+      const doc = documents.get(params.textDocument.uri);
+      if (!doc) return [];
+      const result = await reportFor(doc, token);
+      if (!result || !result.settings.codeLensEnabled) return [];
+      return lensesOf(result.report, result.settings.analysis.precision).map((lens) => toLens(doc, lens));
+    }),
+  );
+
+  connection.onCodeAction(
+    guarded('codeAction', [], async (params, token) => {
+      const doc = documents.get(params.textDocument.uri);
+      if (!doc) return [];
+      const result = await reportFor(doc, token);
+      const language = languageOf(doc);
+      if (!result || !language) return [];
+      const ours = params.context.diagnostics.filter((d) => d.source === 'eigenlens' && typeof d.code === 'string');
+      const actions = codeActionsAt(result.report, doc.getText(), language, {
+        span: toSpan(doc, params.range),
+        diagnosticCodes: ours.map((d) => d.code as string),
+        only: params.context.only ?? [],
+      });
+      return actions.map((a) => toCodeAction(doc, a, ours));
+    }),
+  );
+
+  connection.onExecuteCommand(
+    guarded('executeCommand', null, async (params) => {
+      if (params.command !== Commands.serverSwitchDomain) return null;
+      const [uri, matrixIndex, domain] = (params.arguments ?? []) as [unknown, unknown, unknown];
+      if (typeof uri !== 'string' || typeof matrixIndex !== 'number') throw new Error(`${params.command} needs [uri, matrixIndex, domain?]`);
+      const doc = documents.get(uri);
+      const language = doc ? languageOf(doc) : null;
+      if (!doc || !language) return null;
+      const result = await reportFor(doc);
+      const matrix = result?.report.matrices.find((m) => m.index === matrixIndex);
+      if (!matrix) return null;
+      const target = domain === 'continuous' || domain === 'discrete' ? domain : matrix.domain === 'continuous' ? 'discrete' : 'continuous';
+      const edit = domainEdit(doc.getText(), language, matrix, target);
+      if (!edit) return null;
+      const applied = await connection.workspace.applyEdit({ label: `eigenlens: read as ${target}-time`, edit: toWorkspaceEdit(doc, [edit]) });
+      return applied.applied;
+    }),
+  );
+
+  connection.onRequest(
+    ReportRequestMethod,
+    guarded('report', null as ReportRequestResult | null, async (params: ReportRequestParams) => {
+      const doc = documents.get(params.uri);
+      if (!doc) return null;
+      const result = await reportFor(doc);
+      if (!result) return null;
+      const name = decodeURIComponent(params.uri.split('/').pop() ?? params.uri);
+      return reportMarkdown(result.report, name, params.matrixIndex, result.settings.analysis.precision);
+    }),
+  );
+
+  documents.listen(connection);
+  connection.listen();
+}
