@@ -60,9 +60,10 @@ function unwrap(n: Node): Node {
   return cur;
 }
 
-function toLiteralNode(n: Node): LiteralNode {
+/** Arrays deeper than a matrix (depth > 2) are kept as empty lists: the builder reports them, and recursion stays bounded. */
+function toLiteralNode(n: Node, depth = 0): LiteralNode {
   const u = unwrap(n);
-  if (u.type === 'array') return { span: spanOf(n), items: namedKids(u).map(toLiteralNode) };
+  if (u.type === 'array') return { span: spanOf(n), items: depth >= 2 ? [] : namedKids(u).map((c) => toLiteralNode(c, depth + 1)) };
   return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(u.type) };
 }
 
