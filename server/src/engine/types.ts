@@ -133,4 +133,6 @@ export interface Mode {
   doublingTime: number | null;
   /** Discrete without a period: per-step quantities (radius, angle in rad/sample, samples to 2 %). */
   perStep?: { radius: number; angle: number; samplesTo2pct: number | null };
+  /** Remarks on this mode (e.g. a negative real discrete pole alternates sign every sample). */
+  notes?: string[];
 }
