@@ -59,4 +59,10 @@ describe('package.json contributes', () => {
     expect(ignore).toMatch(/^!dist\/server\.js$/m);
     expect(manifest.main).toBe('./dist/client.js');
   });
+
+  it('points at an icon that exists, is a PNG and ships', () => {
+    const icon = readFileSync(join(root, manifest.icon));
+    expect([...icon.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+    expect(readFileSync(join(root, '.vscodeignore'), 'utf8')).toContain(`!${manifest.icon}`);
+  });
 });
