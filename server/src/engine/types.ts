@@ -113,6 +113,12 @@ export interface TransitionClosedForm {
     residual: number;
     /** residual below the acceptance bound for this conditioning. */
     passed: boolean;
+    /**
+     * Which reference decided: 'double' (float e^{At} / repeated products) or, for rational
+     * matrices where the double reference disagreed, 'multiprecision' (≥ 200-bit fixed point
+     * e^{At}, exact A^k), because the double reference itself can be off on non-normal input.
+     */
+    reference?: 'double' | 'multiprecision';
   };
   /** Condition estimate of the spectral decomposition (large = nearly repeated). */
   conditioning: number;
