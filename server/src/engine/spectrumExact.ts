@@ -15,20 +15,21 @@ import { factorOverQ } from './factor';
 import { polynomialRoots } from './polyRoots';
 import { jordanStructure } from './jordan';
 import { PolyQ, polyMul, polyPow, polyToString } from './polynomial';
+import { NEAR_REPEAT_REL } from './tolerance';
 import { numericRootText, quadraticFromSurd, quadraticNumberToString, quadraticNumberValue } from './format';
 
 export interface ExactSpectrumOptions {
   /**
    * Distinct eigenvalues with |λi − λj| ≤ threshold·max(1, |λi|, |λj|) are reported as
-   * nearly repeated. Default 1e-6: closed forms built on such a pair lose about
-   * log10(1/separation) digits (common practice), i.e. more than half of float64's 16.
+   * nearly repeated. Default NEAR_REPEAT_REL (1e-6, justified in tolerance.ts): closed
+   * forms built on such a pair lose about log10(1/separation) digits.
    */
   nearRepeatThreshold?: number;
   /** Largest n accepted (default 12, the exact-path cap of the design). */
   maxSize?: number;
 }
 
-const DEFAULT_NEAR_REPEAT = 1e-6;
+const DEFAULT_NEAR_REPEAT = NEAR_REPEAT_REL;
 const DEFAULT_MAX_SIZE = 12;
 
 export function exactSpectrum(a: Rational[][], opts: ExactSpectrumOptions = {}): Spectrum {
