@@ -69,9 +69,9 @@ describe('continuous model from ZOH', () => {
           const Sinv = [[1, 0, 0], [-1, 1, 0], [3, -2, 1]];
           const mm = (a: number[][], b: number[][]) => a.map((r) => b[0].map((_, j) => r.reduce((s, x, k) => s + x * b[k][j], 0)));
           const A = mm(mm(S, U), Sinv);
-          const B = [bs.slice(0, 2), bs.slice(2, 4), bs.slice(4, 6)];
-          const allZero = B.every((r) => r.every((x) => x === 0));
-          if (allZero) B[0][0] = 1;
+          // An all-zero B would make Bc trivially right; put a 1 in the corner then.
+          const allZero = bs.every((x) => x === 0);
+          const B: number[][] = [[allZero ? 1 : bs[0], bs[1]], bs.slice(2, 4), bs.slice(4, 6)];
           const T = hundredths / 100;
           const d = discretize({ A, B }, T, 'zoh');
           if (!d.ok) throw new Error(d.error);
