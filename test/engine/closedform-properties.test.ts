@@ -41,7 +41,7 @@ function identityQ(n: number): Rational[][] {
 
 function floatPower(A: number[][], k: number): number[][] {
   const n = A.length;
-  let P = A.map((_, i) => A.map((__, j) => (i === j ? 1 : 0)));
+  let P: number[][] = A.map((_, i) => A.map((__, j) => (i === j ? 1 : 0)));
   for (let s = 0; s < k; s++) P = P.map((row) => A[0].map((_, j) => row.reduce((acc, x, l) => acc + x * A[l][j], 0)));
   return n === 0 ? [] : P;
 }

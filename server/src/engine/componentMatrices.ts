@@ -97,11 +97,12 @@ export function evaluateRationalPolyAt(coeffs: Rational[], powers: IntegerPowers
 }
 
 /**
- * Exact Z_{λ,k} for one root. `minimalPoly` is ψ with rational coefficients (ascending);
- * `powers` must hold at least deg ψ powers of A. Throws when (x − λ)^m does not divide ψ
- * or is not coprime to the cofactor (an inconsistent spectrum), never returns a wrong Z.
+ * The polynomials h_k = (x − λ)^k·e_λ mod ψ, k = 0 … m − 1, over F = Q(√d), so that
+ * Z_{λ,k} = h_k(A). `minimalPoly` is ψ with rational coefficients (ascending). Throws when
+ * (x − λ)^m does not divide ψ or is not coprime to the cofactor (an inconsistent spectrum),
+ * never returns a wrong polynomial.
  */
-export function exactComponentMatrices(minimalPoly: Rational[], root: ExactRootSpec, powers: IntegerPowers, n: number): ExactComponents {
+export function componentPolynomials(minimalPoly: Rational[], root: ExactRootSpec): Poly<QuadElement>[] {
   const { field, lambda, m } = root;
   const F = quadAsField(field);
   const psi: Poly<QuadElement> = minimalPoly.map((c) => field.fromRational(c));
@@ -112,12 +113,31 @@ export function exactComponentMatrices(minimalPoly: Rational[], root: ExactRootS
   if (gcd.length !== 1) throw new RangeError(`root ${field.toText(lambda)} is repeated beyond its stated exponent ${m}`);
   let h = polyMod(F, polyMul(F, v, g), psi);
   const linear = linearPower(F, lambda, 1);
+  const out: Poly<QuadElement>[] = [];
+  for (let k = 0; k < m; k++) {
+    out.push(h);
+    if (k + 1 < m) h = polyMod(F, polyMul(F, h, linear), psi);
+  }
+  return out;
+}
+
+/** p(A) = X + √d·Y for p with coefficients in Q(√d), from precomputed powers of A. */
+export function evaluateFieldPolyAt(field: QuadField, p: Poly<QuadElement>, powers: IntegerPowers, n: number): { X: Rational[][]; Y: Rational[][] } {
+  const X = evaluateRationalPolyAt(p.map((c) => c.a), powers, n);
+  const Y = field.isRational || p.every((c) => c.b.isZero()) ? zeroMatrix(n) : evaluateRationalPolyAt(p.map((c) => c.b), powers, n);
+  return { X, Y };
+}
+
+/**
+ * Exact Z_{λ,k} for one root; `powers` must hold at least deg ψ powers of A.
+ */
+export function exactComponentMatrices(minimalPoly: Rational[], root: ExactRootSpec, powers: IntegerPowers, n: number): ExactComponents {
   const X: Rational[][][] = [];
   const Y: Rational[][][] = [];
-  for (let k = 0; k < m; k++) {
-    X.push(evaluateRationalPolyAt(h.map((c) => c.a), powers, n));
-    Y.push(field.isRational ? zeroMatrix(n) : evaluateRationalPolyAt(h.map((c) => c.b), powers, n));
-    if (k + 1 < m) h = polyMod(F, polyMul(F, h, linear), psi);
+  for (const h of componentPolynomials(minimalPoly, root)) {
+    const z = evaluateFieldPolyAt(root.field, h, powers, n);
+    X.push(z.X);
+    Y.push(z.Y);
   }
   return { X, Y };
 }
