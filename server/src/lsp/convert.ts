@@ -6,7 +6,7 @@
 import {
   CodeAction,
   CodeActionKind,
-  CodeLens,
+  type CodeLens,
   Diagnostic,
   DiagnosticSeverity,
   type Hover,
@@ -50,7 +50,7 @@ export function toHover(doc: TextDocument, h: HoverResult): Hover {
 
 export function toLens(doc: TextDocument, lens: PlainLens): CodeLens {
   const args = lens.needsUri ? [doc.uri, ...lens.args] : lens.args;
-  return CodeLens.create(toRange(doc, lens.span), { title: lens.title, command: lens.command, arguments: args });
+  return { range: toRange(doc, lens.span), command: { title: lens.title, command: lens.command, arguments: args } };
 }
 
 export function toTextEdits(doc: TextDocument, edits: TextEdit[]): LspTextEdit[] {
