@@ -10,7 +10,7 @@
  * Invariants: every scale factor is a power of two, so D⁻¹AD is computed without any
  * rounding and has exactly the eigenvalues of A; the input is not mutated; the loop
  * terminates because each accepted step lowers Σ (r_i + c_i) by ≥ 5 %, with a hard cap on
- * sweeps as a guard against pathological inputs.
+ * sweeps and a range for D as guards against pathological inputs.
  */
 
 export interface Balanced {
@@ -51,7 +51,9 @@ export function balance(A: number[][]): Balanced {
         c /= RADIX * RADIX;
       }
       // c now holds c_old·f², so (c + r)/f = c_old·f + r/f: the new column plus row norm.
-      if ((c + r) / f < 0.95 * sum) {
+      // Keep D within [2^-512, 2^512] (LAPACK dgebal guards the same way against overflow).
+      const next = scaling[i] * f;
+      if ((c + r) / f < 0.95 * sum && next >= 2 ** -512 && next <= 2 ** 512) {
         converged = false;
         scaling[i] *= f;
         for (let j = 0; j < n; j++) B[i][j] /= f;
