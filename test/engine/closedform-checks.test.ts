@@ -11,7 +11,7 @@
 import { describe, expect, it } from 'vitest';
 import { Rational, Q } from '../../server/src/engine/rational';
 import { exactSpectrum } from '../../server/src/engine/spectrumExact';
-import { transitionClosedForm } from '../../server/src/engine/closedForm';
+import { exactPower, multiprecisionExpm, transitionClosedForm } from '../../server/src/engine/closedForm';
 import { evaluateTransition } from '../../server/src/engine/transitionEval';
 import { DEFAULT_REL, relativeError } from '../../server/src/engine/tolerance';
 import type { Spectrum, TransitionClosedForm, TransitionTerm } from '../../server/src/engine/types';
@@ -285,6 +285,41 @@ describe('mixed exact/numeric and the numeric path', () => {
     const at = [[0.32770991402245983, 0.51037795154457281], [-0.51037795154457281, 0.32770991402245983]];
     expect(relativeError(evaluateTransition(cf, 0.5), at)).toBeLessThanOrEqual(DEFAULT_REL);
     expect(cf.entries[0][0].map((t) => ('wave' in t ? t.wave : 'at'))).toEqual(['cos']);
+  });
+});
+
+describe('check against a multiprecision reference', () => {
+  // A strongly non-normal integer matrix (similar to a Jordan block of −1 ⊕ the pair −2 ± 3j),
+  // entries ~10³. Reference: mpmath `expm` at 40 digits (general-purpose reference library).
+  const A4 = [[-872, -855, -1137, -1709], [361, 355, 471, 714], [523, 513, 682, 1027], [-85, -84, -111, -171]];
+  const mpmathAt1 = [
+    [-2.9816594299562636, 2.5365321876153712, -7.1762948095912023, -5.4876652197918721],
+    [6.226416144337913, 4.7548983796521437, 9.1108191884897826, 13.420628267894725],
+    [-2.6878731090364583, -6.3666675207508816, -1.3926055609094396, -6.4322178799798932],
+    [0.060613483657272194, 0.42849292482871452, -0.14533646631013009, 0.087163663697358869],
+  ];
+
+  it('the fixed-point exponential agrees with mpmath to double precision', () => {
+    expect(relativeError(multiprecisionExpm(ints(A4), 1), mpmathAt1)).toBeLessThanOrEqual(DEFAULT_REL);
+  });
+
+  it('the exact closed form of a non-normal matrix agrees with mpmath and its check passes', () => {
+    const cf = closed(ints(A4));
+    expect(cf.exactCoefficients).toBe(true);
+    expect(relativeError(evaluateTransition(cf, 1), mpmathAt1)).toBeLessThanOrEqual(DEFAULT_REL);
+    expect(cf.check.passed).toBe(true);
+  });
+
+  it('exact powers: [[1,1],[1,0]]^30 = [[F31, F30], [F30, F29]] (Knuth, TAOCP vol. 1, §1.2.8, from memory)', () => {
+    expect(exactPower(ints([[1, 1], [1, 0]]), 30)).toEqual([[1346269, 832040], [832040, 514229]]);
+    expect(exactPower([[Q(1, 2)]], 3)).toEqual([[0.125]]);
+  });
+
+  it('#9 still fails against the multiprecision reference: the double evaluation is what is wrong (Moler & Van Loan 1978, from memory)', () => {
+    const eps = Q(1n, 2n ** 52n);
+    const cf = closed([[Q(1).add(eps), Q(1)], [Q(0), Q(1).sub(eps)]]);
+    expect(cf.check.reference).toBe('multiprecision');
+    expect(cf.check.passed).toBe(false);
   });
 });
 
