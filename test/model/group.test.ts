@@ -5,10 +5,10 @@
  */
 import { describe, expect, it } from 'vitest';
 import { extract, initParsers } from '../../server/src/syntax/extract';
-import { groupModels } from '../../server/src/model/group';
+import { groupModels, type GroupSettings } from '../../server/src/model/group';
 
 await initParsers();
-const settings = { defaultDomain: 'continuous' as const, defaultPeriod: null };
+const settings: GroupSettings = { defaultDomain: 'continuous', defaultPeriod: null };
 
 function group(src: string, lang: 'python' | 'typescript' | 'lti' = 'python', s = settings) {
   const file = extract(src, lang);

@@ -46,15 +46,14 @@ export const MAX_EXACT_EXPONENT = 64;
 /** Largest exact result (decimal digits of numerator + denominator) before falling back to float. */
 export const MAX_EXACT_DIGITS = 400;
 
-class EvalFailure extends Error {
+/** Thrown inside the evaluator only; not an Error subclass so that no stack trace is captured (hot path). */
+class EvalFailure {
   constructor(
     readonly code: string,
-    message: string,
+    readonly message: string,
     readonly start: number,
     readonly end: number,
-  ) {
-    super(message);
-  }
+  ) {}
 }
 
 // ---------------------------------------------------------------------------------------
@@ -629,7 +628,16 @@ function evaluateExpr(node: Expr, scope: ReadonlyMap<string, EntryValue>, lang: 
  * Evaluates one entry or constant expression. Never throws: every failure comes back as an
  * error with a stable code and a range relative to `text`.
  */
+/** Plain decimal literals, the common case, skip the parser (same result as the full path). */
+const PLAIN_NUMBER = /^-?(?:[0-9]+\.?[0-9]*|\.[0-9]+)(?:[eE][+-]?[0-9]{1,3})?$/;
+
 export function evaluateEntry(text: string, scope: ReadonlyMap<string, EntryValue>, lang: SourceLanguage): EvaluationResult {
+  if (PLAIN_NUMBER.test(text)) {
+    const r = Rational.parse(text);
+    if (r && Number.isFinite(r.toNumber()) && Math.abs(Number(/[eE]([+-]?[0-9]+)$/.exec(text)?.[1] ?? 0)) <= 400) {
+      return { value: { kind: 'exact', value: r } };
+    }
+  }
   try {
     screenCharacters(text);
     const tokens = tokenize(text, lang);

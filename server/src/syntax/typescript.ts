@@ -38,12 +38,10 @@ function spanOf(n: Node): Span {
   return { start: n.startIndex, end: n.endIndex };
 }
 
+/** Named children without comments; `namedChildren` marshals all children in one call (much cheaper than namedChild(i)). */
 function namedKids(n: Node): Node[] {
   const out: Node[] = [];
-  for (let i = 0; i < n.namedChildCount; i++) {
-    const c = n.namedChild(i);
-    if (c && c.type !== 'comment') out.push(c);
-  }
+  for (const c of n.namedChildren) if (c && c.type !== 'comment') out.push(c);
   return out;
 }
 
