@@ -24,6 +24,7 @@ import type { DiscreteModel, DocumentReport, Finding, MatrixReport, ModelReport 
 import { discreteModelFor } from './discrete';
 import { findingsForMatrix } from './findings';
 import { lineColumnAt } from './position';
+import { analyseModel } from './modelAnalysis';
 
 export { DEFAULT_SETTINGS } from './settings';
 
@@ -111,15 +112,12 @@ export function analyzeDocument(
     matrices.push(reportForMatrix(text, file, lit, index, model, settings, options.cache));
   }
 
-  const models: ModelReport[] = grouping.models.map((m) => ({
-    id: m.id,
-    state: m.state,
-    input: m.input,
-    output: m.output,
-    feedthrough: m.feedthrough,
-    domain: m.domain,
-    period: m.period,
-  }));
+  const byIndex = new Map<number, MatrixReport>(matrices.map((m) => [m.index, m]));
+  const models: ModelReport[] = [];
+  for (const m of grouping.models) {
+    if (options.isCancelled?.()) break;
+    models.push(analyseModel(file, m, byIndex, settings));
+  }
   return { language, matrices, models, findings };
 }
 
@@ -252,12 +250,12 @@ function analyseStateMatrix(
 
   let spectrum: Spectrum;
   try {
-    spectrum = exactA ? exactSpectrum(exactA, { nearRepeatThreshold: settings.nearRepeatThreshold }) : floatSpectrum(floatA, { nearRepeatThreshold: settings.nearRepeatThreshold });
+    spectrum = exactA ? exactSpectrum(exactA, { nearRepeatThreshold: settings.nearRepeatThreshold }) : floatSpectrum(floatA);
   } catch (err) {
     if (exactA) {
       core.notes.push(`Exact analysis failed (${(err as Error).message}); analysed in floating point.`);
       useExact = false;
-      spectrum = floatSpectrum(floatA, { nearRepeatThreshold: settings.nearRepeatThreshold });
+      spectrum = floatSpectrum(floatA);
     } else {
       core.skipped.push(`The spectrum could not be computed: ${(err as Error).message}`);
       return core;

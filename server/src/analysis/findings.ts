@@ -8,7 +8,7 @@ import type { MatrixLiteral } from '../syntax/types';
 import type { MatrixCore } from './analyze';
 import type { Finding, MatrixReport } from './report';
 import type { AnalysisSettings } from './settings';
-import { formatNumber, formatSeconds } from './numberText';
+import { eigenvalueLabel, formatNumber, formatSeconds } from './numberText';
 
 export const FINDING_CODES = [
   'unstable-mode',
@@ -20,9 +20,14 @@ export const FINDING_CODES = [
   'analysis-limit',
 ] as const;
 
+/** "one Jordan block of size 2", "Jordan blocks of sizes 2, 1". */
+export function jordanText(blocks: number[]): string {
+  return blocks.length === 1 ? `one Jordan block of size ${blocks[0]}` : `Jordan blocks of sizes ${blocks.join(', ')}`;
+}
+
 function multiplicityText(e: Eigenvalue): string {
   if (e.algebraic === 1) return '';
-  const blocks = e.blocks.length > 1 || e.blocks[0] > 1 ? `, Jordan blocks ${e.blocks.join('+')}` : '';
+  const blocks = e.blocks.some((b) => b > 1) ? `, ${jordanText(e.blocks)}` : '';
   return ` (algebraic ${e.algebraic}, geometric ${e.geometric}${blocks})`;
 }
 
@@ -43,11 +48,10 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
       .map((m) => ({ m, e: spec.eigenvalues[m.eigenvalueIndex] }))
       .filter(({ m }) => m.behaviour === 'grows' || m.behaviour === 'growing-oscillation' || m.behaviour === 'polynomial-growth');
     const parts = growing.map(({ m, e }) => {
-      const pair = e.im !== 0 ? '±' : '';
-      const name = pair ? e.text.replace(/\+j/, '±j') : e.text;
-      if (m.behaviour === 'polynomial-growth') return `λ = ${name} sits on the ${boundaryWord} with a Jordan block of size ${Math.max(...e.blocks)}, so it grows like ${continuous ? 't' : 'k'}^${Math.max(...e.blocks) - 1}`;
+      const name = eigenvalueLabel(e);
+      if (m.behaviour === 'polynomial-growth') return `${name} sits on the ${boundaryWord} with a Jordan block of size ${Math.max(...e.blocks)}, so it grows like ${continuous ? 't' : 'k'}^${Math.max(...e.blocks) - 1}`;
       const dbl = m.doublingTime !== null ? `, doubling every ${continuous || report.period !== null ? formatSeconds(m.doublingTime) : `${formatNumber(m.doublingTime, 3)} steps`}` : '';
-      return `λ = ${name} grows${dbl}`;
+      return `${name} grows${dbl}`;
     });
     out.push({
       span,
@@ -61,7 +65,7 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
       span,
       severity: 'information',
       code: 'marginally-stable',
-      message: `${label} is marginally stable: ${boundary.map((e) => `λ = ${e.text}`).join(', ') || 'an eigenvalue'} on the ${boundaryWord} with simple Jordan blocks; it neither decays nor grows.`,
+      message: `${label} is marginally stable: ${boundary.filter((e) => e.im >= 0).map((e) => eigenvalueLabel(e)).join(', ') || 'an eigenvalue'} on the ${boundaryWord} with simple Jordan blocks; it neither decays nor grows.`,
     });
   }
 
@@ -72,7 +76,7 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
       severity: 'information',
       code: 'defective-matrix',
       message: `${label} is defective${spec.exact ? '' : ' (numerically)'}: ${bad
-        .map((e) => `λ = ${e.text}${multiplicityText(e)}`)
+        .map((e) => `${eigenvalueLabel(e)}${multiplicityText(e)}`)
         .join('; ')}. It has no basis of eigenvectors, so modal (eigenvector) methods fail and ${continuous ? 't·e^{λt}' : 'k·λ^k'} terms appear.`,
     });
   }
@@ -100,13 +104,13 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
 
   for (const m of core.modes) {
     const e = spec.eigenvalues[m.eigenvalueIndex];
-    if (m.dampingRatio === null || e.im === 0 || m.s === null) continue;
+    if (m.dampingRatio === null || e.im === 0 || m.s === null || m.behaviour === 'polynomial-growth') continue;
     if (m.dampingRatio >= 0 && m.dampingRatio < settings.lightDampingThreshold) {
       out.push({
         span,
         severity: 'information',
         code: 'light-damping',
-        message: `The mode λ = ${e.text.replace(/\+j/, '±j')} is lightly damped: ζ = ${formatNumber(m.dampingRatio, p > 4 ? 4 : p)} is below ${settings.lightDampingThreshold} (setting eigenlens.lightDampingThreshold)${m.naturalFrequency !== null ? `, ω_n = ${formatNumber(m.naturalFrequency, 4)} rad/s` : ''}.`,
+        message: `The mode ${eigenvalueLabel(e)} is lightly damped: ζ = ${formatNumber(m.dampingRatio, p > 4 ? 4 : p)} is below ${settings.lightDampingThreshold} (setting eigenlens.lightDampingThreshold)${m.naturalFrequency !== null ? `, ω_n = ${formatNumber(m.naturalFrequency, 4)} rad/s` : ''}.`,
       });
     }
   }

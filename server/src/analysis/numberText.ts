@@ -29,3 +29,22 @@ export function formatSeconds(sec: number, digits = 3): string {
   if (a < 36000) return `${formatNumber(sec / 60, digits)} min`;
   return `${formatNumber(sec / 3600, digits)} h`;
 }
+
+/**
+ * "λ = -1 ± j√3", "λ ≈ -4.369 ± j8.7139", "λ = ±j2", "λ = 16": an eigenvalue (the upper member
+ * of a conjugate pair stands for the pair) with "=" for exact and "≈" for numeric values.
+ */
+export function eigenvalueLabel(e: { text: string; im: number }, symbol = 'λ'): string {
+  let text = e.text;
+  let rel = '=';
+  if (text.startsWith('≈')) {
+    rel = '≈';
+    text = text.slice(1).trim();
+  }
+  if (e.im > 0) {
+    const k = text.lastIndexOf('+j');
+    if (k > 0) text = `${text.slice(0, k)} ± j${text.slice(k + 2)}`;
+    else if (text.startsWith('j')) text = `±${text}`;
+  }
+  return `${symbol} ${rel} ${text}`;
+}

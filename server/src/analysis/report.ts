@@ -4,6 +4,10 @@
  * (hover, lenses, diagnostics, actions) and cli/ (text, JSON, SARIF).
  */
 import type { Mode, Spectrum, Stability, TransitionClosedForm, Domain } from '../engine/types';
+import type { ReachabilityResult } from '../engine/controllability';
+import type { TransferFunctionSuccess } from '../engine/transferFunction';
+import type { PeriodAdvice } from '../engine/samplePeriod';
+import type { QuantizationSuccess } from '../engine/quantize';
 import type { MatrixRole, Problem, SourceLanguage, Span, EntryValue } from '../syntax/types';
 
 /** A finding with a stable code of ours, at a document range. */
@@ -66,10 +70,21 @@ export interface ModelReport {
   feedthrough: number | null;
   domain: Domain;
   period: number | null;
-  /** Filled by the discrete-time and controllability work. */
-  controllability?: unknown;
-  observability?: unknown;
-  transferFunction?: unknown;
+  /** Kalman rank and uncontrollable modes of (A, B); null without B or when not computed. */
+  controllability: ReachabilityResult | null;
+  /** Rank and unobservable modes of (A, C); null without C. */
+  observability: ReachabilityResult | null;
+  /** The same for the sampled model (Ad, Bd) / (Ad, Cd) when a discretization exists. */
+  sampledControllability: ReachabilityResult | null;
+  sampledObservability: ReachabilityResult | null;
+  /** C(sI − A)⁻¹B + D (or the z-domain one), entries[output][input]. */
+  transferFunction: TransferFunctionSuccess | null;
+  /** Sample-period advice for a continuous model with a known period. */
+  periodAdvice: PeriodAdvice | null;
+  /** Float32 (and fixed-point, when set) rounding of the discrete state matrix. */
+  quantization: QuantizationSuccess[];
+  /** Why any of the above was not computed. */
+  notes: string[];
 }
 
 export interface DocumentReport {

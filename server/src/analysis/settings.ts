@@ -25,6 +25,14 @@ export interface AnalysisSettings {
   stateMatrixNames: string[];
   /** Significant digits for numbers printed in hovers and reports. */
   precision: number;
+  /** Fixed-point format checked besides float32 (Qm.n: m integer bits, n fractional bits), or null. */
+  fixedPoint: { integerBits: number; fractionalBits: number } | null;
+  /** Relative pole movement under rounding above which `float32-sensitive` is reported. */
+  quantizationThreshold: number;
+  /** Sample-period rules: T ≤ τ_min / this (common practice). */
+  periodTimeConstantDivisor: number;
+  /** Sample-period rules: fewest samples per oscillation period (common practice). */
+  periodMinSamplesPerOscillation: number;
   /** Wall-clock budget for one matrix's analysis, milliseconds. */
   timeBudgetMs: number;
   /** Files larger than this (characters) get one information finding and no analysis. */
@@ -43,6 +51,10 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   nearRepeatThreshold: 1e-6,
   stateMatrixNames: [],
   precision: 6,
+  fixedPoint: null,
+  quantizationThreshold: 1e-4,
+  periodTimeConstantDivisor: 10,
+  periodMinSamplesPerOscillation: 10,
   timeBudgetMs: 2000,
   maxFileChars: 4_000_000,
 };

@@ -6,7 +6,8 @@
 import type { DocumentReport, MatrixReport } from '../analysis/report';
 import type { Mode, Spectrum } from '../engine/types';
 import { entryText } from '../analysis/termText';
-import { formatNumber, formatSeconds } from '../analysis/numberText';
+import { eigenvalueLabel, formatNumber, formatSeconds } from '../analysis/numberText';
+import { jordanText } from '../analysis/findings';
 import { lineColumnAt } from '../analysis/position';
 
 const VERDICT: Record<string, string> = {
@@ -18,11 +19,10 @@ const VERDICT: Record<string, string> = {
 export function modeSentence(mode: Mode, spec: Spectrum, domain: 'continuous' | 'discrete', period: number | null, digits: number): string {
   const e = spec.eigenvalues[mode.eigenvalueIndex];
   const pair = e.im !== 0;
-  const name = pair ? e.text.replace(/\+j/, ' ± j').replace(/\+ ?(\d|\.)(.*)j$/, ' ± $1$2j') : e.text;
   const mult =
     e.algebraic === 1
       ? 'simple'
-      : `algebraic ${e.algebraic}, geometric ${e.geometric}${e.blocks.some((b) => b > 1) ? `, Jordan blocks ${e.blocks.join('+')}` : ''}`;
+      : `algebraic ${e.algebraic}, geometric ${e.geometric}${e.blocks.some((b) => b > 1) ? `, ${jordanText(e.blocks)}` : ''}`;
   const time = (x: number | null) => (x === null ? '' : domain === 'continuous' || period !== null ? formatSeconds(x) : `${formatNumber(x, 3)} steps`);
   const bits: string[] = [];
   switch (mode.behaviour) {
@@ -56,7 +56,7 @@ export function modeSentence(mode: Mode, spec: Spectrum, domain: 'continuous' | 
   if (mode.settlingTime2pct !== null && (mode.behaviour === 'decays' || mode.behaviour === 'decaying-oscillation')) bits.push(`2 % settling ${time(mode.settlingTime2pct)}`);
   if (domain === 'discrete' && mode.s) bits.push(`continuous equivalent s = ${formatNumber(mode.s.re, 4)}${mode.s.im ? ` ± ${formatNumber(Math.abs(mode.s.im), 4)}j` : ''} rad/s`);
   if (domain === 'discrete' && !mode.s && mode.perStep) bits.push(`|z| = ${formatNumber(mode.perStep.radius, 4)} per step`);
-  return `λ = ${name} (${mult}) ${bits.join('; ')}.`;
+  return `${eigenvalueLabel(e)} (${mult}) ${bits.join('; ')}.`;
 }
 
 function matrixBlock(path: string, text: string, m: MatrixReport, digits: number): string[] {
