@@ -18,6 +18,8 @@ import {
 } from '../../server/src/engine/matrixQ';
 import { polyExactQuotient, polyMul, polyPow, polyEquals, polyFromInts, type PolyQ } from '../../server/src/engine/polynomial';
 import { closeTo } from '../../server/src/engine/tolerance';
+import { squareFreeModular } from '../../server/src/engine/squarefree';
+import { polyGcd, polyDerivative, polyDegree } from '../../server/src/engine/polynomial';
 
 const parse = (xs: string[]): PolyQ => xs.map((x) => Rational.parse(x)!);
 
@@ -216,6 +218,28 @@ describe('exact spectrum identities (property tests)', () => {
         expect(polyEquals(characteristicPolynomial(C), polyFromInts([...coeffs, 1]))).toBe(true);
       }),
       { seed: 42, numRuns: 200 },
+    );
+  });
+
+  it('modular square-free test agrees with gcd(p, p′) over Q (definition of square-free; Yun 1976)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.integer({ min: -6, max: 6 }), { minLength: 1, maxLength: 4 }),
+        fc.array(fc.integer({ min: -6, max: 6 }), { minLength: 1, maxLength: 4 }),
+        fc.boolean(),
+        fc.integer({ min: 1, max: 9 }),
+        (a, b, square, den) => {
+          const f = polyFromInts([...a, 1]);
+          const g = polyFromInts([...b, 1]);
+          const p = polyMul(square ? polyMul(f, f) : f, g).map((c) => c.div(Q(den)));
+          const sqFree = polyDegree(polyGcd(p, polyDerivative(p))) === 0;
+          // The modular test may only say "square-free" when it is; with three primes it
+          // also finds every square-free case of this size.
+          expect(squareFreeModular(p)).toBe(sqFree);
+          if (square) expect(squareFreeModular(p)).toBe(false);
+        },
+      ),
+      { seed: 42, numRuns: 300 },
     );
   });
 });

@@ -146,7 +146,7 @@ function findFactorOfDegree(rest: PolyQ, units: RootUnit[], d: number): { factor
   const search = (start: number, degLeft: number): { factor: PolyQ; used: number[] } | null => {
     if (degLeft === 0) {
       const cand = roundedProduct(chosen.flatMap((i) => units[i].roots));
-      if (cand && polyExactQuotient(rest, cand) !== null) return { factor: cand, used: chosen.slice() };
+      if (cand && integerValuesDivide(cand, rest) && polyExactQuotient(rest, cand) !== null) return { factor: cand, used: chosen.slice() };
       return null;
     }
     for (let i = start; i < units.length; i++) {
@@ -163,15 +163,43 @@ function findFactorOfDegree(rest: PolyQ, units: RootUnit[], d: number): { factor
 }
 
 /**
+ * Necessary condition for g | f over Z[y]: g(0) | f(0) and g(1) | f(1) (values of integer
+ * polynomials). Two BigInt remainders reject most wrong candidates before a division.
+ */
+function integerValuesDivide(g: PolyQ, f: PolyQ): boolean {
+  for (const at of [0n, 1n]) {
+    const gv = evalInt(g, at);
+    const fv = evalInt(f, at);
+    if (gv === 0n ? fv !== 0n : fv % gv !== 0n) return false;
+  }
+  return true;
+}
+
+function evalInt(p: PolyQ, x: bigint): bigint {
+  let acc = 0n;
+  for (let i = p.length - 1; i >= 0; i--) acc = acc * x + p[i].num;
+  return acc;
+}
+
+/**
  * Coefficients of Π(y − z) rounded to integers, or null when they are visibly not
- * integers. The filter only saves exact divisions: 1e-6 relative is far above the
- * rounding error of a product of ≤ 6 well-computed roots and far below the distance 1 to
- * the next integer; the exact division that follows decides.
+ * integers. The filter only saves exact divisions; the exact division decides. Slack:
+ * coefficient k is an elementary symmetric function of the roots, whose rounding error is
+ * bounded by about (roots' relative error)·e_k(|z|); 1e-8·e_k(|z|) allows root errors a
+ * million times above the ~1e-14 that polishing reaches, plus an absolute 1e-6.
  */
 function roundedProduct(roots: Complex[]): PolyQ | null {
   let re = [1];
   let im = [0];
+  let mag = [1]; // coefficients of Π(y + |z|): error scale per coefficient
   for (const z of roots) {
+    const abs = Math.hypot(z.re, z.im);
+    const nm = new Array<number>(mag.length + 1).fill(0);
+    for (let i = 0; i < mag.length; i++) {
+      nm[i + 1] += mag[i];
+      nm[i] += mag[i] * abs;
+    }
+    mag = nm;
     const nr = new Array<number>(re.length + 1).fill(0);
     const ni = new Array<number>(re.length + 1).fill(0);
     for (let i = 0; i < re.length; i++) {
@@ -184,9 +212,10 @@ function roundedProduct(roots: Complex[]): PolyQ | null {
     im = ni;
   }
   const out: Rational[] = [];
-  for (const c of re) {
+  for (let i = 0; i < re.length; i++) {
+    const c = re[i];
     const k = Math.round(c);
-    if (!Number.isSafeInteger(k) || Math.abs(c - k) > 1e-6 * Math.max(1, Math.abs(c))) return null;
+    if (!Number.isSafeInteger(k) || Math.abs(c - k) > 1e-6 + 1e-8 * mag[i]) return null;
     out.push(Rational.fromInt(k));
   }
   return out;

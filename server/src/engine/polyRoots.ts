@@ -37,12 +37,20 @@ export function polynomialRoots(coeffs: (Rational | number)[]): Complex[] {
   let raw: Complex[];
   if (deg === 1) raw = [{ re: -monic[0], im: 0 }];
   else {
+    // Substitute x = σ·t with σ a power of two near the Fujiwara root bound
+    // max_k |c_{n−k}|^{1/k}: the scaled coefficients are ≤ 1 in size, which balances the
+    // companion matrix (unbalanced ones cost QR iterations and accuracy); powers of two
+    // keep the scaling exact.
+    let bound = 0;
+    for (let k = 1; k <= deg; k++) bound = Math.max(bound, Math.abs(monic[deg - k]) ** (1 / k));
+    const sigma = bound > 0 && Number.isFinite(bound) ? 2 ** Math.round(Math.log2(bound)) : 1;
+    const scaled = monic.map((x, i) => x / sigma ** (deg - i));
     // Companion matrix with the monic coefficients in the last column.
     const comp = Matrix.zeros(deg, deg);
     for (let i = 1; i < deg; i++) comp.set(i, i - 1, 1);
-    for (let i = 0; i < deg; i++) comp.set(i, deg - 1, -monic[i]);
+    for (let i = 0; i < deg; i++) comp.set(i, deg - 1, -scaled[i]);
     const evd = new EigenvalueDecomposition(comp, { assumeSymmetric: false });
-    raw = evd.realEigenvalues.map((re, i) => ({ re, im: evd.imaginaryEigenvalues[i] }));
+    raw = evd.realEigenvalues.map((re, i) => ({ re: re * sigma, im: evd.imaginaryEigenvalues[i] * sigma }));
   }
   const deriv = monic.slice(1).map((x, i) => x * (i + 1));
   const polished = raw.map((z) => polish(monic, deriv, z));
