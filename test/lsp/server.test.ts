@@ -154,7 +154,7 @@ describe('hover', () => {
     // λ = 0 (standard result, from memory); the positive root doubles every
     // ln 2/10.698 ≈ 64.8 ms.
     expect(md).toContain('**Unstable**');
-    expect(md).toMatch(/doubling every 64\.8 ms/);
+    expect(md).toMatch(/λ = √11445\/10 ≈ 10\.698, simple: grows, doubling every 64\.8 ms/);
     expect(md).toMatch(/λ = 0\b/);
   });
 
@@ -203,6 +203,7 @@ describe('diagnostics', () => {
     expect(codes.has('near-repeated-eigenvalues')).toBe(true);
     expect(codes.has('shape-mismatch')).toBe(true);
     expect(codes.has('unknown-name')).toBe(true);
+    expect(codes.has('non-square-state')).toBe(true);
     const unknown = diagnostics.find((d) => d.code === 'unknown-name')!;
     expect(unknown.severity).toBe(1);
   });
@@ -231,7 +232,7 @@ describe('code lenses and commands', () => {
 
   it('unstable model file lens names the growing mode', async () => {
     const lenses = await checkLenses('hover_wheel.lti');
-    expect(lenses[0].command?.title).toMatch(/^⚠ unstable: λ = .* doubles every 64\.8 ms/);
+    expect(lenses[0].command?.title).toBe('⚠ unstable: λ ≈ 10.7 doubles every 64.8 ms');
   });
 
   it('switching the domain inserts our pragma through workspace/applyEdit', async () => {

@@ -45,6 +45,26 @@ function numericText(ev: Eigenvalue, precision: number): string {
   return `${ev.re === 0 ? '' : formatNumber(ev.re, precision)}${ev.re === 0 && sign === '+' ? '' : sign}j${formatNumber(Math.abs(ev.im), precision)}`;
 }
 
+/** Does the exact text need a decimal beside it to be read at a glance (surds; plain fractions read fine)? */
+export function needsDecimal(ev: Eigenvalue): boolean {
+  return ev.text.includes('√') && !ev.text.trim().startsWith('≈');
+}
+
+/** Decimal form of an eigenvalue (pair written with ±). */
+export function eigenvalueDecimal(ev: Eigenvalue, precision: number, asPair: boolean): string {
+  const re = formatNumber(ev.re, precision);
+  if (ev.im === 0) return re;
+  const im = formatNumber(Math.abs(ev.im), precision);
+  const sign = asPair ? '±' : ev.im < 0 ? '−' : '+';
+  return ev.re === 0 ? `${asPair ? '±' : ev.im < 0 ? '−' : ''}j${im}` : `${re} ${sign} j${im}`;
+}
+
+/** Exact text, followed by "≈ decimal" when the exact text has surds or fractions. */
+export function eigenvalueWithDecimal(ev: Eigenvalue, precision: number, asPair: boolean): string {
+  const exact = eigenvalueText(ev, precision, asPair);
+  return needsDecimal(ev) ? `${exact} ≈ ${eigenvalueDecimal(ev, Math.min(precision, 5), asPair)}` : exact;
+}
+
 /** The whole matrix as aligned plain text, one row a line, for a fenced block or the clipboard. */
 export function transitionText(transition: TransitionClosedForm, precision: number): string {
   const cells = transition.entries.map((row) => row.map((terms) => entryText(terms, transition.variable, precision)));

@@ -10,7 +10,7 @@ import type { DocumentReport, MatrixReport } from '../analysis/report';
 import type { AnalysisSettings } from '../analysis/settings';
 import type { Span } from '../syntax/types';
 import { SAFETY_CAUTION_SHORT } from '../analysis/caution';
-import { entryText, escapeTableCell, eigenvalueText, formatNumber, transitionTitle } from './format';
+import { entryText, escapeTableCell, eigenvalueText, eigenvalueWithDecimal, formatNumber, transitionTitle } from './format';
 import { behaviourText, multiplicityText, verdictHeadline } from './summary';
 import { modalResponseSvg, svgDataUri } from './plot';
 
@@ -100,10 +100,13 @@ function stateMarkdown(matrix: MatrixReport, precision: number): string {
       const ev = spectrum.eigenvalues[mode.eigenvalueIndex];
       if (!ev) continue;
       const pair = ev.im !== 0;
-      out.push(`- λ = ${eigenvalueText(ev, precision, true)}${pair ? ' (conjugate pair)' : ''}, ${multiplicityText(ev)}: ${behaviourText(matrix, mode, precision)}.`);
+      out.push(`- λ = ${eigenvalueWithDecimal(ev, precision, true)}${pair ? ' (conjugate pair)' : ''}, ${multiplicityText(ev)}: ${behaviourText(matrix, mode, precision)}.`);
     }
     const notes: string[] = [];
-    if (spectrum.defective) notes.push('The matrix is **defective** (fewer independent eigenvectors than its size): the response has polynomial-times-exponential terms, and eigenvector-based methods do not apply.');
+    if (spectrum.defective) {
+      const terms = matrix.domain === 'continuous' ? 't^m·e^(λt)' : 'k^m·λ^k';
+      notes.push(`The matrix is **defective** (fewer independent eigenvectors than its size): the response has ${terms} terms, and eigenvector-based methods do not apply.`);
+    }
     for (const near of spectrum.nearRepeated) {
       const a = spectrum.eigenvalues[near.a];
       const b = spectrum.eigenvalues[near.b];

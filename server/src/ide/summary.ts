@@ -6,7 +6,7 @@
  */
 import type { Eigenvalue, Mode } from '../engine/types';
 import type { MatrixReport } from '../analysis/report';
-import { eigenvalueText, formatDuration, formatNumber } from './format';
+import { eigenvalueDecimal, eigenvalueText, formatDuration, formatNumber, needsDecimal } from './format';
 
 export const GROWING: ReadonlySet<Mode['behaviour']> = new Set(['grows', 'growing-oscillation', 'polynomial-growth']);
 
@@ -57,11 +57,17 @@ function timeOrSteps(report: MatrixReport, value: number, precision: number): st
   return formatDuration(value, precision);
 }
 
+/** Lens-sized eigenvalue: long surd texts become a 3-digit decimal. */
+function shortLambda(ev: Eigenvalue, precision: number): string {
+  const exact = eigenvalueText(ev, precision, true);
+  return needsDecimal(ev) && exact.length > 8 ? `λ ≈ ${eigenvalueDecimal(ev, 3, true)}` : `λ = ${exact}`;
+}
+
 /** The code-lens title: verdict and the dominant mode in a few words. */
 export function lensTitle(report: MatrixReport, precision: number): string {
   const mode = dominantMode(report);
   const ev = mode ? eigenvalueOf(report, mode) : null;
-  const lambda = ev ? `λ = ${eigenvalueText(ev, precision, true)}` : '';
+  const lambda = ev ? shortLambda(ev, precision) : '';
   if (report.stability === null || !mode || !ev) {
     return report.skipped.length > 0 ? `eigenlens: not analysed (${report.skipped[0].replace(/\.$/, '')})` : 'eigenlens: not analysed';
   }
@@ -69,7 +75,7 @@ export function lensTitle(report: MatrixReport, precision: number): string {
   if (report.stability === 'unstable') {
     const worst = growingModes(report).sort((a, b) => growthRate(report, b) - growthRate(report, a))[0] ?? mode;
     const wev = eigenvalueOf(report, worst) ?? ev;
-    const wl = `λ = ${eigenvalueText(wev, precision, true)}`;
+    const wl = shortLambda(wev, precision);
     if (worst.behaviour === 'polynomial-growth') {
       return `⚠ unstable: ${wl} repeated on the ${report.domain === 'continuous' ? 'imaginary axis' : 'unit circle'} grows like ${report.domain === 'continuous' ? 't' : 'k'}^${Math.max(...wev.blocks) - 1}`;
     }
@@ -79,7 +85,7 @@ export function lensTitle(report: MatrixReport, precision: number): string {
   if (report.stability === 'marginally-stable') {
     const persistent = report.modes.find((m) => m.behaviour === 'oscillates' || m.behaviour === 'constant') ?? mode;
     const pev = eigenvalueOf(report, persistent) ?? ev;
-    const pl = `λ = ${eigenvalueText(pev, precision, true)}`;
+    const pl = shortLambda(pev, precision);
     if (persistent.behaviour === 'oscillates' && persistent.period !== null) {
       return `marginally stable · ${pl} oscillates, period ${timeOrSteps(report, persistent.period, precision)}`;
     }
