@@ -207,25 +207,35 @@ async function aimAtCursor(page) {
 }
 
 async function openAt(page, absPath, line, col) {
-  const mod = 'Control';
-  await page.keyboard.press(`${mod}+KeyP`);
-  const quickOpen = await until('quick open', 10_000, async () => (await page.locator('.quick-input-widget input').isVisible()) && true);
-  if (!quickOpen) {
-    await wait(1000);
-    await page.keyboard.press(`${mod}+KeyP`);
+  const quickInput = page.locator('.quick-input-widget input');
+  const activeTabIs = (name) =>
+    page.evaluate((n) => [...document.querySelectorAll('.tab.active')].some((t) => t.textContent.includes(n)), name);
+  // Quick Open with the absolute path; retried because an early Ctrl+P can land before the
+  // workbench's keybindings are ready, and a hover left open can swallow the first key.
+  let opened = false;
+  for (let attempt = 0; attempt < 3 && !opened; attempt++) {
+    await page.keyboard.press('Escape');
+    await page.keyboard.press('Escape');
+    await page.keyboard.press('Control+KeyP');
+    if (!(await until('quick open', 5000, () => quickInput.isVisible()))) continue;
+    await quickInput.fill(absPath);
+    await until('quick open result', 10_000, async () => (await page.locator('.quick-input-list .monaco-list-row').count()) > 0);
+    await page.keyboard.press('Enter');
+    opened = Boolean(await until('editor tab', 10_000, () => activeTabIs(basename(absPath))));
   }
-  await page.keyboard.type(absPath, { delay: 5 });
-  await until('quick open result', 10_000, async () => (await page.locator('.quick-input-list .monaco-list-row').count()) > 0);
-  await page.keyboard.press('Enter');
-  await until('editor tab', 15_000, async () =>
-    page.evaluate((name) => [...document.querySelectorAll('.tab.active')].some((t) => t.textContent.includes(name)), basename(absPath)),
-  );
-  await wait(500);
-  await page.keyboard.press(`${mod}+KeyG`);
-  await wait(300);
-  await page.keyboard.type(`${line}:${col}`);
-  await page.keyboard.press('Enter');
-  await wait(300);
+  if (!opened) throw new Error(`could not open ${absPath} with Quick Open`);
+  // Go to Line, checked against the status bar's "Ln N, Col M".
+  const where = () => page.evaluate(() => document.querySelector('#status\\.editor\\.selection')?.textContent?.trim() ?? '');
+  for (let attempt = 0; attempt < 4; attempt++) {
+    await page.keyboard.press('Control+KeyG');
+    if (!(await until('go to line', 5000, () => quickInput.isVisible()))) continue;
+    await quickInput.fill(`:${line}:${col}`);
+    await wait(200);
+    await page.keyboard.press('Enter');
+    const at = await until('cursor moved', 3000, async () => ((await where()).startsWith(`Ln ${line}, Col ${col}`) ? await where() : undefined));
+    if (at) return;
+  }
+  throw new Error(`Go to Line ${line}:${col} did not move the cursor (status bar: ${await where()})`);
 }
 
 async function hoverLikeAUser(page, timeoutMs) {
@@ -292,6 +302,13 @@ async function lookAtFile(page, file, outDir, workspace) {
       height: Math.min(900 - Math.max(0, hover.box.y - 30), hover.box.height + 60),
     };
     await page.screenshot({ path: join(outDir, `${tag}-hover.png`), clip });
+    if (hover.scrolls) {
+      // What a user finds after scrolling the hover (the plot usually sits below the fold).
+      await page.mouse.move(hover.box.x + hover.box.width / 2, hover.box.y + hover.box.height / 2, { steps: 3 });
+      await page.mouse.wheel(0, 2000);
+      await wait(400);
+      await page.screenshot({ path: join(outDir, `${tag}-hover-scrolled.png`), clip });
+    }
   }
   const problems = await page.evaluate(() => document.querySelector('#status\\.problems')?.textContent?.trim() ?? '');
   const summary = { file, position: at, hover, lenses: finalState?.lenses ?? [], squiggles: finalState?.squiggles ?? null, statusBarProblems: problems };
@@ -326,8 +343,14 @@ async function main() {
 
   const vsix = join(repo, 'dist', 'eigenlens.vsix');
   if (!args['no-package']) {
-    say('packaging the extension (npm run package)');
-    run('npm', ['run', '--silent', 'package'], { cwd: repo });
+    // The same steps as `npm run package`, with base URLs so vsce accepts the README's
+    // relative links (it refuses them when the repository is not on a host it knows).
+    say('packaging the extension (build + vsce package)');
+    run(process.execPath, ['scripts/build.mjs'], { cwd: repo });
+    const base = String(JSON.parse(readFileSync(join(repo, 'package.json'), 'utf8')).repository?.url ?? 'https://example.invalid/eigenlens')
+      .replace(/\.git$/, '') + '/';
+    run(process.execPath, [join(repo, 'node_modules', '@vscode', 'vsce', 'vsce'), 'package', '--no-dependencies',
+      '--baseContentUrl', base, '--baseImagesUrl', base, '-o', vsix], { cwd: repo });
   }
   if (!existsSync(vsix)) throw new Error(`${vsix} is missing; run npm run package`);
   say(`package: ${relative(repo, vsix)}, ${(statSync(vsix).size / 1024).toFixed(0)} KiB`);
