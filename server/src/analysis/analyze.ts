@@ -103,13 +103,27 @@ export function analyzeDocument(
     }
   }
 
+  // One budget for the whole document: the engine is synchronous and each matrix is bounded
+  // by the size caps, so the check between matrices keeps a document within budget plus one matrix.
+  const deadline = Date.now() + settings.timeBudgetMs;
+  let overBudget = 0;
   const matrices: MatrixReport[] = [];
   for (let index = 0; index < file.matrices.length; index++) {
     if (options.isCancelled?.()) break;
     const lit = file.matrices[index];
     if (lit.pragma?.ignore) continue;
     const model = modelOf.get(index) ?? null;
-    matrices.push(reportForMatrix(text, file, lit, index, model, settings, options.cache));
+    const cached = Date.now() <= deadline;
+    if (!cached) overBudget++;
+    matrices.push(reportForMatrix(text, file, lit, index, model, settings, options.cache, !cached));
+  }
+  if (overBudget > 0) {
+    findings.push({
+      span: { start: 0, end: 0 },
+      severity: 'information',
+      code: 'analysis-limit',
+      message: `The time budget of ${settings.timeBudgetMs} ms (setting eigenlens.timeBudgetMs) ran out: ${overBudget} matri${overBudget === 1 ? 'x was' : 'ces were'} not analysed in this pass.`,
+    });
   }
 
   const byIndex = new Map<number, MatrixReport>(matrices.map((m) => [m.index, m]));
@@ -138,6 +152,7 @@ function reportForMatrix(
   model: ModelGroup | null,
   settings: AnalysisSettings,
   cache: AnalysisCache | undefined,
+  overBudget = false,
 ): MatrixReport {
   const values = entryValues(lit);
   const isState = lit.role === 'state' || (model !== null && model.state === index);
@@ -161,7 +176,10 @@ function reportForMatrix(
   const hash = createHash('sha1').update(hashInput).digest('hex').slice(0, 16);
 
   let core = cache?.get(hash);
-  if (!core) {
+  if (!core && overBudget && isState) {
+    core = emptyCore();
+    core.skipped.push(`Not analysed: the document's time budget of ${settings.timeBudgetMs} ms ran out before this matrix.`);
+  } else if (!core) {
     core = isState ? analyseStateMatrix(lit, values, domain, period, settings, file, model) : emptyCore();
     cache?.set(hash, core);
   }
