@@ -18,6 +18,8 @@ import {
 } from './reportFixtures';
 
 const hasScipy = spawnSync('python3', ['-c', 'import numpy, scipy.linalg']).status === 0;
+// CI installs numpy and scipy (.ci/run); there a missing reference library is a failure, not a skip.
+if (process.env.CI && !hasScipy) throw new Error('numpy and scipy are required when CI is set (see .ci/run)');
 const work = mkdtempSync(join(tmpdir(), 'eigenlens-phi-'));
 
 function apply(text: string, edit: TextEdit): string {

@@ -200,6 +200,7 @@ function reportForMatrix(
     period,
     exact: lit.exact,
     values,
+    entrySpans: lit.rows.map((row) => row.map((e) => e.span)),
     spectrum: core.spectrum,
     stability: core.stability,
     modes: core.modes,
