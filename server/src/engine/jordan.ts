@@ -13,8 +13,8 @@
  * Invariants: blocks are descending, sum(blocks) = algebraic, blocks.length = geometric,
  * blocks[0] = index.
  */
-import type { Rational } from './rational';
-import { contentInt, mulInt, polyAtMatrixQ, rankInt, toIntegerMatrix } from './matrixQ';
+import { Rational, lcm } from './rational';
+import { contentInt, mulInt, rankInt, toIntegerMatrix } from './matrixQ';
 import type { PolyQ } from './polynomial';
 
 export interface JordanStructure {
@@ -36,8 +36,8 @@ export function jordanStructure(a: Rational[][], q: PolyQ, algebraic: number): J
   const n = a.length;
   const d = q.length - 1;
   if (algebraic === 1) return { blocks: [1], geometric: 1, index: 1, kernelDimensions: [1], consistent: true };
-  // q(A) as an integer matrix (common denominator and content removed: the kernel is unchanged).
-  const base = reduce(toIntegerMatrix(polyAtMatrixQ(q, a)).ints);
+  // A nonzero multiple of q(A) as an integer matrix: the kernel is unchanged.
+  const base = reduce(scaledPolyAtMatrixInt(q, a));
   const target = algebraic * d;
   const kernelDimensions: number[] = [];
   let consistent = true;
@@ -67,4 +67,25 @@ function reduce(m: bigint[][]): bigint[][] {
   const g = contentInt(m);
   if (g <= 1n) return m;
   return m.map((row) => row.map((x) => x / g));
+}
+
+/**
+ * c·q(A) with c > 0 chosen so everything is an integer: with A = B/L (B integer),
+ * D·L^d·q(A) = Σ e_i·B^i where e_i = D·q_i·L^{d−i} and D clears the remaining
+ * denominators; evaluated by Horner's rule in BigInt matrices (no Rational gcds).
+ */
+function scaledPolyAtMatrixInt(q: PolyQ, a: Rational[][]): bigint[][] {
+  const n = a.length;
+  const d = q.length - 1;
+  const { ints: B, den: L } = toIntegerMatrix(a);
+  const scaled = q.map((c, i) => c.mul(Rational.of(L ** BigInt(d - i))));
+  let D = 1n;
+  for (const c of scaled) if (c.den !== 1n) D = lcm(D, c.den);
+  const e = scaled.map((c) => c.num * (D / c.den));
+  let h: bigint[][] = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? e[d] : 0n)));
+  for (let i = d - 1; i >= 0; i--) {
+    h = mulInt(h, B);
+    for (let k = 0; k < n; k++) h[k][k] += e[i];
+  }
+  return h;
 }

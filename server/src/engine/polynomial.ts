@@ -125,16 +125,59 @@ export function polyExactQuotient(a: PolyQ, b: PolyQ): PolyQ | null {
   return remainder.length === 0 ? quotient : null;
 }
 
-/** Monic gcd (gcd(0, 0) = 0). */
+/**
+ * Monic gcd (gcd(0, 0) = 0). Runs the primitive polynomial remainder sequence over Z
+ * (pseudo-division, then removal of the content; Knuth, TAOCP vol. 2, §4.6.1, Algorithm
+ * E, from memory): Euclid over Q lets the remainders' fractions explode, the primitive
+ * sequence keeps integers about the size of the inputs'. The result is the same gcd.
+ */
 export function polyGcd(a: PolyQ, b: PolyQ): PolyQ {
-  let x = polyTrim(a);
-  let y = polyTrim(b);
+  let x = primitiveInt(polyTrim(a));
+  let y = primitiveInt(polyTrim(b));
+  if (x.length < y.length) [x, y] = [y, x];
   while (y.length > 0) {
-    const r = polyDivmod(x, y).remainder;
+    const r = primitiveInt(pseudoRemainder(x, y));
     x = y;
-    y = polyMonic(r); // keeping remainders monic limits coefficient growth
+    y = r;
   }
-  return polyMonic(x);
+  return polyMonic(x.map((c) => Rational.fromInt(c)));
+}
+
+function gcdInt(a: bigint, b: bigint): bigint {
+  if (a < 0n) a = -a;
+  if (b < 0n) b = -b;
+  while (b !== 0n) [a, b] = [b, a % b];
+  return a;
+}
+
+/** Integer polynomial with content 1 and the same roots; [] for zero. */
+function primitiveInt(p: PolyQ | bigint[]): bigint[] {
+  let ints: bigint[];
+  if (p.length > 0 && typeof p[0] !== 'bigint') {
+    const q = p as PolyQ;
+    let den = 1n;
+    for (const c of q) if (c.den !== 1n) den = (den / gcdInt(den, c.den)) * c.den;
+    ints = q.map((c) => c.num * (den / c.den));
+  } else ints = (p as bigint[]).slice();
+  let n = ints.length;
+  while (n > 0 && ints[n - 1] === 0n) n--;
+  ints = ints.slice(0, n);
+  let g = 0n;
+  for (const c of ints) if (c !== 0n) g = gcdInt(g, c);
+  return g > 1n ? ints.map((c) => c / g) : ints;
+}
+
+/** lc(b)^(deg a − deg b + 1)·a mod b over Z, ascending coefficients (untrimmed). */
+function pseudoRemainder(a: bigint[], b: bigint[]): bigint[] {
+  const r = a.slice(); // working copy, reduced in place
+  const db = b.length - 1;
+  const lc = b[db];
+  for (let k = r.length - 1; k >= db; k--) {
+    const f = r[k];
+    for (let i = 0; i <= k; i++) r[i] *= lc;
+    if (f !== 0n) for (let j = 0; j <= db; j++) r[k - db + j] -= f * b[j];
+  }
+  return r.slice(0, db);
 }
 
 /** Extended Euclid: s·a + t·b = g with g the monic gcd. */
