@@ -7,6 +7,7 @@
  *   squaring, expm.ts) and that of A^k equals repeated float products;
  * - Φ(0) = I exactly, checked on the exact coefficient texts;
  * - a Jordan block of size s of λ produces t^{s−1}·e^{λt} (k^{s−1}·λ^k) and no higher power.
+ * The numeric path is run on the same S·J·S⁻¹ matrices given as doubles.
  * Matrices: random small integer matrices, and S·J·S⁻¹ with unimodular integer S and J made
  * of Jordan blocks of rational eigenvalues and real Jordan blocks of complex pairs
  * [[a, b], [−b, a]] — the eigenvalues and block sizes are known by construction.
@@ -21,6 +22,7 @@ import { describe, expect, it } from 'vitest';
 import fc from 'fast-check';
 import { Rational, Q } from '../../server/src/engine/rational';
 import { exactSpectrum } from '../../server/src/engine/spectrumExact';
+import { floatSpectrum } from '../../server/src/engine/spectrumFloat';
 import { transitionClosedForm } from '../../server/src/engine/closedForm';
 import { evaluateTerm } from '../../server/src/engine/transitionEval';
 import { expmTimes } from '../../server/src/engine/expm';
@@ -47,14 +49,14 @@ function floatPower(A: number[][], k: number): number[][] {
 }
 
 /** Failure text, or null when every entry agrees within the documented tolerance. */
-function compareWithReference(cf: TransitionClosedForm, ref: number[][], at: number): string | null {
+function compareWithReference(cf: TransitionClosedForm, ref: number[][], at: number, referenceRel = REFERENCE_REL): string | null {
   const refNorm = Math.max(1, ...ref.flat().map(Math.abs));
   for (let r = 0; r < ref.length; r++) {
     for (let c = 0; c < ref.length; c++) {
       const values = cf.entries[r][c].map((t) => evaluateTerm(t, at));
       const sum = values.reduce((a, b) => a + b, 0);
       const absSum = values.reduce((a, b) => a + Math.abs(b), 0);
-      const tol = TERM_ULPS * EPS * absSum + REFERENCE_REL * refNorm;
+      const tol = TERM_ULPS * EPS * absSum + referenceRel * refNorm;
       if (!(Math.abs(sum - ref[r][c]) <= tol)) return `entry (${r},${c}) at ${at}: ${sum} vs ${ref[r][c]} (tol ${tol})`;
     }
   }
@@ -222,6 +224,29 @@ describe('closed form properties', () => {
         for (let k = 0; k <= 8; k++) expect(compareWithReference(disc, floatPower(Af, k), k)).toBeNull();
         expect(cont.check.passed).toBe(true);
         expect(disc.check.passed).toBe(true);
+      }),
+      { seed: 7, numRuns: 150 },
+    );
+  });
+});
+
+describe('closed form properties, numeric path (floatSpectrum → closed form on number[][])', () => {
+  // Float eigenvalues are accurate to ~SPECTRUM_BACKWARD_ERROR·‖A‖ (1e-11, tolerance.ts) for
+  // simple ones and to that level for the mean of a Jordan cluster; that error enters
+  // e^{λt} as δλ·t with ‖A‖t ≤ 20 here, so the reference part of the tolerance is 1e-9.
+  const NUMERIC_REFERENCE_REL = 1e-9;
+  it('S·J·S⁻¹ in doubles: the check passes and values match expm and repeated products', () => {
+    fc.assert(
+      fc.property(similarArb, ({ A }) => {
+        const Af = A.map((r) => r.map((x) => x.toNumber()));
+        const spectrum = floatSpectrum(Af);
+        const cont = transitionClosedForm(Af, spectrum, 'continuous');
+        const disc = transitionClosedForm(Af, spectrum, 'discrete');
+        expect(cont.exactCoefficients).toBe(false);
+        expect(cont.check.passed).toBe(true);
+        expect(disc.check.passed).toBe(true);
+        for (const t of sampleTimes(cont, Af)) expect(compareWithReference(cont, expmTimes(Af, t), t, NUMERIC_REFERENCE_REL)).toBeNull();
+        for (let k = 0; k <= 8; k++) expect(compareWithReference(disc, floatPower(Af, k), k, NUMERIC_REFERENCE_REL)).toBeNull();
       }),
       { seed: 7, numRuns: 150 },
     );

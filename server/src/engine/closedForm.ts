@@ -47,7 +47,7 @@ import {
 } from './componentMatrices';
 import { complexField, polyAdd, polyScale, quadAsField, type Complex, type Poly } from './fieldPoly';
 import { expmTimes } from './expm';
-import { EPS } from './tolerance';
+import { EPS, SPECTRUM_BACKWARD_ERROR, frobeniusNorm } from './tolerance';
 import { evaluateTerm } from './transitionEval';
 import type { ContinuousTerm, DiscreteTerm, Domain, Spectrum, TransitionClosedForm, TransitionTerm } from './types';
 
@@ -79,10 +79,11 @@ export const CHECK_RESIDUAL_CAP = 1e-6;
  */
 const NUMERIC_DROP_ULPS = 64;
 
-/** Sample-time caps: growth e^{σt} ≤ e^20 keeps every value far from overflow; |λ|t ≤ 1e3
- *  keeps the reference exponential in the range where scaling and squaring is accurate. */
+/** Sample-time caps: growth e^{σt} ≤ e^20 keeps every value far from overflow; ‖A‖_∞·t ≤ 100
+ *  keeps t^k terms bounded and the reference exponential in the range where scaling and
+ *  squaring is accurate (a slow mode still shows at such t, its coefficient enters Φ at t ≈ 0). */
 const MAX_GROWTH_EXPONENT = 20;
-const MAX_SPEED_TIMES = 1e3;
+const MAX_NORM_TIMES = 100;
 /** Largest step used by the discrete check (repeated products, O(n³) each). */
 const MAX_DISCRETE_STEP = 200;
 
@@ -107,7 +108,7 @@ export function transitionClosedForm(
   if (rational && spectrum.exact && spectrum.factors) {
     exactCoefficients = buildExact(A as Rational[][], Afloat, spectrum, builder);
   } else {
-    buildNumeric(Afloat, numericRootsFromEigenvalues(spectrum), builder);
+    buildNumeric(Afloat, numericRootsFromEigenvalues(spectrum, Afloat), builder);
     exactCoefficients = false;
   }
   const entries = builder.finish();
@@ -244,9 +245,19 @@ function exactToComplex(field: QuadField, x: QuadElement): Complex {
 
 /* ------------------------------------------------------------------ numeric path */
 
-/** Distinct eigenvalues with algebraic multiplicities, closed under conjugation. */
-function numericRootsFromEigenvalues(spectrum: Spectrum): NumericRootSpec[] {
-  const roots = conjugateClosed(spectrum.eigenvalues.map((e) => ({ lambda: { re: e.re, im: e.im }, m: e.algebraic })));
+/**
+ * Distinct eigenvalues with algebraic multiplicities, closed under conjugation. An
+ * eigenvalue with |λ| ≤ SPECTRUM_BACKWARD_ERROR·‖A‖_F is taken as exactly 0: it is zero to
+ * within the backward error of the spectrum (the mean of a split Jordan block is accurate
+ * to that level), and a tiny non-zero λ would make the discrete expansion divide by λ^i.
+ */
+function numericRootsFromEigenvalues(spectrum: Spectrum, A: number[][]): NumericRootSpec[] {
+  const zeroBelow = SPECTRUM_BACKWARD_ERROR * frobeniusNorm(A);
+  const snapped = spectrum.eigenvalues.map((e) => ({
+    lambda: Math.hypot(e.re, e.im) <= zeroBelow ? { re: 0, im: 0 } : { re: e.re, im: e.im },
+    m: e.algebraic,
+  }));
+  const roots = conjugateClosed(snapped);
   const total = roots.reduce((acc, r) => acc + r.m, 0);
   if (total !== spectrum.n) throw new RangeError(`closed form: the eigenvalue multiplicities add up to ${total}, the matrix has n = ${spectrum.n}`);
   for (const r of roots) {
@@ -558,22 +569,22 @@ function waveRank(w: 'cos' | 'sin'): number {
  * Sample times from the spectrum. Continuous: with τ_fast = 1/max|λ| and τ_slow = 1/min|λ|
  * over non-zero eigenvalues (1 when all are zero), t ∈ {0, τ_fast/2, τ_fast,
  * √(τ_fast·τ_slow), τ_slow, 2τ_slow}, each capped so that max Re(λ)·t ≤ 20 and
- * max|λ|·t ≤ 1000. Discrete: k ∈ {0, 1, 2, 3, 5, 8, 13, 21}, the largest Jordan index and
+ * ‖A‖_∞·t ≤ 100 (a nilpotent 3×3 block at ‖A‖t = 1000 already cost the double reference
+ * six digits). Eigenvalues with |λ| ≤ SPECTRUM_BACKWARD_ERROR·‖A‖_∞ count as zero here. Discrete: k ∈ {0, 1, 2, 3, 5, 8, 13, 21}, the largest Jordan index and
  * one more, and the step where the slowest non-unit radius has decayed or grown by e
  * (≤ 200), each capped so that max r^k ≤ e^20.
  */
-export function checkSamples(spectrum: Spectrum, domain: Domain): number[] {
+export function checkSamples(spectrum: Spectrum, domain: Domain, normInf: number): number[] {
   const eigs = spectrum.eigenvalues;
   const out = new Set<number>();
   if (domain === 'continuous') {
-    const speeds = eigs.map((e) => Math.hypot(e.re, e.im)).filter((s) => s > 0);
+    const speeds = eigs.map((e) => Math.hypot(e.re, e.im)).filter((s) => s > SPECTRUM_BACKWARD_ERROR * normInf);
     const fast = speeds.length ? 1 / Math.max(...speeds) : 1;
     const slow = speeds.length ? 1 / Math.min(...speeds) : 1;
     const maxRe = Math.max(0, ...eigs.map((e) => e.re));
-    const maxSpeed = speeds.length ? Math.max(...speeds) : 0;
     let cap = Infinity;
     if (maxRe > 0) cap = Math.min(cap, MAX_GROWTH_EXPONENT / maxRe);
-    if (maxSpeed > 0) cap = Math.min(cap, MAX_SPEED_TIMES / maxSpeed);
+    if (normInf > 0) cap = Math.min(cap, MAX_NORM_TIMES / normInf);
     for (const t of [0, fast / 2, fast, Math.sqrt(fast * slow), slow, 2 * slow]) out.add(Math.min(t, cap));
   } else {
     const radii = eigs.map((e) => Math.hypot(e.re, e.im));
@@ -667,7 +678,8 @@ export function checkClosedForm(
   spectrum: Spectrum,
   Aexact: Rational[][] | null = null,
 ): { samples: number[]; residual: number; conditioning: number; reference: 'double' | 'multiprecision' } {
-  const samples = checkSamples(spectrum, domain);
+  const normInf = Math.max(0, ...Afloat.map((row) => row.reduce((acc, x) => acc + Math.abs(x), 0)));
+  const samples = checkSamples(spectrum, domain, normInf);
   const powers = domain === 'discrete' ? discretePowers(Afloat, samples) : null;
   const perSample = samples.map((s) => {
     try {
