@@ -16,7 +16,7 @@ export async function runDocumentBench(E, root, { log = () => {} } = {}) {
     const { text } = generateSourceFile(seed, language);
     const cold = [];
     let report;
-    for (let i = 0; i < 3; i++) {
+    for (let i = 0; i < 2; i++) {
       const cache = new E.AnalysisCache();
       const s = performance.now();
       report = E.analyzeDocument(text, language, E.DEFAULT_SETTINGS, { cache });

@@ -29,6 +29,21 @@ function memoryOf(pid) {
   }
 }
 
+/**
+ * User + system CPU seconds a process has used (Linux /proc/<pid>/stat fields 14 and 15, in
+ * clock ticks of 1/100 s, the Linux USER_HZ). Compared with wall time it shows how much of a
+ * latency was the server computing and how much was waiting for a core on a busy machine.
+ */
+function cpuSecondsOf(pid) {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return (Number(fields[11]) + Number(fields[12])) / 100;
+  } catch {
+    return null;
+  }
+}
+
 class ServerSession {
   constructor(root) {
     this.root = root;
@@ -39,7 +54,9 @@ class ServerSession {
 
   async start() {
     this.t0 = performance.now();
-    this.proc = spawn(process.execPath, [join(this.root, 'dist', 'server.js'), '--stdio'], { cwd: this.root, stdio: ['pipe', 'pipe', 'pipe'] });
+    // EIGENLENS_BENCH_SERVER_NODE_ARGS passes extra node flags to the server, e.g. "--cpu-prof --cpu-prof-dir=prof".
+    const nodeArgs = (process.env.EIGENLENS_BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
+    this.proc = spawn(process.execPath, [...nodeArgs, join(this.root, 'dist', 'server.js'), '--stdio'], { cwd: this.root, stdio: ['pipe', 'pipe', 'pipe'] });
     this.proc.stderr.on('data', (d) => {
       if (this.stderr.length < 20_000) this.stderr += d;
     });
@@ -108,7 +125,7 @@ function histogram(diagnostics) {
 }
 
 /** One language: spawn, open, hover, edit. */
-async function languageRun(root, language, { seed, hoverCount, editCount, debounceMs, log }) {
+export async function languageRun(root, language, { seed, hoverCount, editCount, debounceMs, log }) {
   const file = generateSourceFile(seed, language);
   const uri = pathToFileURL(join(root, 'dist', `bench-${language}-${seed}.${EXTENSION[language]}`)).href;
   const session = await new ServerSession(root).start();
@@ -126,6 +143,7 @@ async function languageRun(root, language, { seed, hoverCount, editCount, deboun
       openToFirstDiagnosticsMs: first.at - openAt,
       diagnostics: first.params.diagnostics.length,
       diagnosticCodes: histogram(first.params.diagnostics),
+      serverCpuSecondsAtFirstDiagnostics: cpuSecondsOf(session.proc.pid),
       rssAfterOneFile: memoryOf(session.proc.pid),
     };
     log(`server ${language}: initialize ${out.spawnToInitializeMs.toFixed(0)} ms, first diagnostics ${out.spawnToFirstDiagnosticsMs.toFixed(0)} ms after spawn (${out.diagnostics} diagnostics)`);
@@ -149,6 +167,7 @@ async function languageRun(root, language, { seed, hoverCount, editCount, deboun
     // One-character edits: a single-digit entry of an integer matrix gets another digit.
     const candidates = file.matrices.filter((m) => m.kind === 'integer');
     const totals = [];
+    const cpuBeforeEdits = cpuSecondsOf(session.proc.pid);
     let version = 1;
     for (let i = 0; i < editCount; i++) {
       const m = rng.pick(candidates);
@@ -168,7 +187,9 @@ async function languageRun(root, language, { seed, hoverCount, editCount, deboun
       totals.push(got.at - t0);
     }
     const total = summary(totals);
+    const cpuAfterEdits = cpuSecondsOf(session.proc.pid);
     out.edit = {
+      serverCpuMsPerEdit: cpuBeforeEdits === null || cpuAfterEdits === null ? null : ((cpuAfterEdits - cpuBeforeEdits) * 1000) / editCount,
       total,
       debounceMs,
       excludingDebounce: { median: total.median - debounceMs, p95: total.p95 - debounceMs },
@@ -205,6 +226,7 @@ async function memoryRun(root, { log }) {
     // Settle: let a pending garbage collection or timer finish before reading memory.
     await new Promise((r) => setTimeout(r, 500));
     const mem = memoryOf(session.proc.pid);
+    mem.serverCpuSeconds = cpuSecondsOf(session.proc.pid);
     log(`server memory: ${mem.rssMB?.toFixed(1)} MB resident after ten files (peak ${mem.peakRssMB?.toFixed(1)} MB), all diagnostics in ${allDiagnosticsMs.toFixed(0)} ms`);
     return { files: 10, allDiagnosticsMs, ...mem };
   } finally {
@@ -213,7 +235,7 @@ async function memoryRun(root, { log }) {
   }
 }
 
-export async function runServerBench(root, { debounceMs, hoverCount = 300, editCount = 25, log = () => {} }) {
+export async function runServerBench(root, { debounceMs, hoverCount = 300, editCount = 15, log = () => {} }) {
   const python = await languageRun(root, 'python', { seed: 5001, hoverCount, editCount, debounceMs, log });
   const typescript = await languageRun(root, 'typescript', { seed: 5002, hoverCount, editCount, debounceMs, log });
   const memory = await memoryRun(root, { log });

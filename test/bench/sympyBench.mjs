@@ -12,7 +12,7 @@ import { summary } from './stats.mjs';
 
 export const AGREEMENT_BOUND = 1e-10;
 const TIMES = ['1/4', '1', '2'];
-const CASE_TIMEOUT_MS = 60_000;
+const CASE_TIMEOUT_MS = 90_000;
 
 /** The first interpreter that imports sympy: Debian's /usr/bin/python3, then python3 on PATH. */
 export function findSympyPython() {
