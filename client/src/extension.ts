@@ -129,7 +129,13 @@ async function showReport(uriArg?: unknown, matrixIndexArg?: unknown): Promise<v
   }
   const reportUri = ReportDocuments.uriFor(target);
   const doc = await vscode.workspace.openTextDocument(reportUri);
-  await vscode.window.showTextDocument(doc, { preview: true, viewColumn: vscode.ViewColumn.Beside });
+  // Rendered, because the report carries tables and plots (data: SVG images) that are
+  // unreadable as raw Markdown; the raw read-only text where the Markdown preview is absent.
+  try {
+    await vscode.commands.executeCommand('markdown.showPreviewToSide', reportUri);
+  } catch {
+    await vscode.window.showTextDocument(doc, { preview: true, viewColumn: vscode.ViewColumn.Beside });
+  }
 }
 
 async function copyTransition(textArg?: unknown): Promise<void> {
@@ -312,7 +318,8 @@ class ReportDocuments implements vscode.TextDocumentContentProvider, vscode.Disp
     try {
       const result = await running.sendRequest<ReportRequestResult | null>(ReportRequestMethod, params);
       if (!result) return '# eigenlens\n\nNo state matrix was found in this document.\n';
-      return `# ${result.title}\n\n${result.markdown}\n`;
+      // The server's Markdown usually opens with its own heading; add the title only when it does not.
+      return /^#\s/.test(result.markdown) ? `${result.markdown}\n` : `# ${result.title}\n\n${result.markdown}\n`;
     } catch (err) {
       log(`${ReportRequestMethod} failed: ${errorText(err)}`);
       return `# eigenlens\n\nThe server could not produce this report: ${errorText(err)}\n`;
