@@ -25,6 +25,44 @@ export interface LiteralNode {
   items: LiteralNode[] | null;
   /** Leaves that are obviously not numbers, so lenient literals can be skipped without evaluating. */
   obviouslyNonNumeric?: boolean;
+  /** The parser could not read this leaf (an ERROR node, or one with a missing token inside). */
+  syntaxError?: boolean;
+}
+
+/**
+ * Invisible and direction-changing characters (soft hyphen, zero-width space/joiners, marks,
+ * bidi embeddings/overrides/isolates, word joiner, byte-order mark). The parsers treat some of
+ * them as white space, so an entry can look different from what is read ("Trojan Source",
+ * Boucher & Anderson, USENIX Security 2023); a literal holding one is never analysed.
+ */
+const HIDDEN_CHARACTER = /[\u00AD\u200B-\u200F\u202A-\u202E\u2060-\u2069\uFEFF]/g;
+
+/**
+ * The source range of the comma-separated item of a bracketed row that contains `offset`,
+ * trimmed of white space. Used when the parser's own nodes do not line up with what the user
+ * wrote as one entry (`2x`, `2 pi`, `x = 1` inside a row). Brackets nest; quotes are not
+ * tracked (an item with a quoted comma is split early, which only narrows the range).
+ */
+function itemRangeAt(text: string, row: Span, offset: number): Span | null {
+  let depth = 0;
+  let itemStart = row.start + 1;
+  const close = row.end - 1;
+  for (let i = row.start + 1; i <= close; i++) {
+    const c = i < close ? text[i] : ',';
+    if (c === '[' || c === '(' || c === '{') depth++;
+    else if ((c === ']' || c === ')' || c === '}') && depth > 0) depth--;
+    else if (c === ',' && depth === 0) {
+      if (offset >= itemStart && offset < i) {
+        let s = itemStart;
+        let e = i;
+        while (s < e && /\s/.test(text[s])) s++;
+        while (e > s && /\s/.test(text[e - 1])) e--;
+        return s < e ? { start: s, end: e } : null;
+      }
+      itemStart = i + 1;
+    }
+  }
+  return null;
 }
 
 export interface LiteralInput {
@@ -59,6 +97,25 @@ export function buildMatrix(
   const local: Problem[] = [];
   const error = (span: Span, code: string, message: string) => local.push({ span, severity: 'error', code, message });
 
+  // Unreadable entries (parser ERROR nodes): report the whole written entry and hand on no
+  // matrix. Checked before the shape, because an ERROR node splits one entry into several.
+  const unreadable = (rowNodes: LiteralNode[][], rowSpans: Span[]): boolean => {
+    for (let r = 0; r < rowNodes.length; r++) {
+      const bad = rowNodes[r].find((e) => e.syntaxError);
+      if (!bad) continue;
+      const range = itemRangeAt(text, rowSpans[r], bad.span.start) ?? bad.span;
+      // The evaluator usually names the fault more precisely (implicit-multiplication, assignment, suspicious-character).
+      const r2 = evaluateEntry(text.slice(range.start, range.end), scope, lang);
+      if ('error' in r2 && r2.error.code !== 'syntax-error') {
+        const s = range.start + r2.error.start;
+        error({ start: s, end: Math.max(range.start + r2.error.end, s) }, r2.error.code, r2.error.message);
+      } else {
+        error(range, 'syntax-error', `This entry cannot be read as a number: "${clip(text.slice(range.start, range.end))}".`);
+      }
+    }
+    return local.length > 0;
+  };
+
   const firstIsList = items[0].items !== null;
   const mixed = items.find((it) => (it.items !== null) !== firstIsList);
   if (mixed) {
@@ -82,6 +139,11 @@ export function buildMatrix(
   } else {
     rowNodes = items.map((row) => row.items ?? []);
     rowSpans = items.map((row) => row.span);
+    if (unreadable(rowNodes, rowSpans)) {
+      if (!strict) return null;
+      problems.push(...local);
+      return null;
+    }
     const nCols = rowNodes[0].length;
     for (let r = 0; r < rowNodes.length; r++) {
       const deep = rowNodes[r].find((e) => e.items !== null);
@@ -110,6 +172,11 @@ export function buildMatrix(
   }
 
   if (!strict && rowNodes.some((row) => row.some((e) => e.obviouslyNonNumeric))) return null;
+  if (!firstIsList && unreadable(rowNodes, rowSpans)) {
+    if (!strict) return null;
+    problems.push(...local);
+    return null;
+  }
 
   let exact = true;
   const rows: MatrixEntry[][] = [];
@@ -131,6 +198,27 @@ export function buildMatrix(
     }
     rows.push(out);
   }
+  // Hidden characters anywhere in the literal (also between tokens, where the parsers skip them).
+  for (const hit of text.slice(input.span.start, input.span.end).matchAll(HIDDEN_CHARACTER)) {
+    const at = input.span.start + (hit.index ?? 0);
+    const code = `U+${hit[0].charCodeAt(0).toString(16).toUpperCase().padStart(4, '0')}`;
+    let where: Span = { start: at, end: at + 1 };
+    for (let r = 0; r < rows.length; r++) {
+      if (at < rowSpans[r].start || at >= rowSpans[r].end) continue;
+      const range = itemRangeAt(text, rowSpans[r], at);
+      if (!range) break;
+      where = range;
+      for (const entry of rows[r]) {
+        if (entry.span.start < range.end && entry.span.end > range.start && entry.value !== null) {
+          entry.value = null;
+          exact = false;
+        }
+      }
+      break;
+    }
+    if (!strict) return null;
+    error(where, 'suspicious-character', `An invisible or text-direction character (${code}) is in this entry: what is shown may differ from what is read, so the matrix is not analysed. Delete it.`);
+  }
   problems.push(...local);
   const matrix: MatrixLiteral = {
     name: input.name,
@@ -148,6 +236,10 @@ export function buildMatrix(
   };
   if (input.qualifiedName !== undefined && input.qualifiedName !== input.name) matrix.qualifiedName = input.qualifiedName;
   return matrix;
+}
+
+function clip(s: string): string {
+  return s.length > 40 ? `${s.slice(0, 37)}...` : s;
 }
 
 // ---------------------------------------------------------------------------------------

@@ -48,7 +48,7 @@ function namedKids(n: Node): Node[] {
 /** Lists deeper than a matrix (depth > 2) are kept as empty lists: the builder reports them, and recursion stays bounded. */
 function toLiteralNode(n: Node, depth = 0): LiteralNode {
   if (n.type === 'list' || n.type === 'tuple') return { span: spanOf(n), items: depth >= 2 ? [] : namedKids(n).map((c) => toLiteralNode(c, depth + 1)) };
-  return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(n.type) };
+  return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(n.type), syntaxError: n.type === 'ERROR' || n.hasError };
 }
 
 /** The list inside `np.array([...], dtype=float)`, or the list itself. */

@@ -62,7 +62,7 @@ function unwrap(n: Node): Node {
 function toLiteralNode(n: Node, depth = 0): LiteralNode {
   const u = unwrap(n);
   if (u.type === 'array') return { span: spanOf(n), items: depth >= 2 ? [] : namedKids(u).map((c) => toLiteralNode(c, depth + 1)) };
-  return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(u.type) };
+  return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(u.type), syntaxError: n.type === 'ERROR' || n.hasError };
 }
 
 function literalOf(value: Node): { top: Node; arrayCall: boolean } | null {
