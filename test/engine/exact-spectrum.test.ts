@@ -10,7 +10,7 @@ import { exactSpectrum } from '../../server/src/engine/spectrumExact';
 import { characteristicPolynomial } from '../../server/src/engine/charpoly';
 import { squareFreeFactorization } from '../../server/src/engine/squarefree';
 import { factorOverQ } from '../../server/src/engine/factor';
-import { polynomialRoots } from '../../server/src/engine/polyRoots';
+import { polynomialRoots, realRootCount } from '../../server/src/engine/polyRoots';
 import {
   polyDivmod, polyExtendedGcd, polyFromInts, polyGcd, polyMul, polyAdd, polyToString, polyEquals, polyPow, polyCompose,
   polyEvalComplex, polyDerivative,
@@ -240,6 +240,23 @@ describe('building blocks', () => {
     roots.forEach((z, i) => expect(Math.abs(z.re - (8 - i))).toBeLessThan(1e-9));
     const r = polyEvalComplex(p, roots[0]);
     expect(Math.abs(r.re)).toBeLessThan(1e-6);
+  });
+
+  it('real versus complex is decided exactly: x³ − 3x + 2 + 10⁻²⁰ has one real root and a pair 1 ± j·5.77e-11 (Sturm count; perturbation of the double root of (x − 1)²(x + 2), from memory)', () => {
+    const p = [Q(2).add(Q(1n, 10n ** 20n)), Q(-3), Q(0), Q(1)];
+    expect(realRootCount(p)).toBe(1);
+    expect(realRootCount(polyFromInts([2, -3, 0, 1]))).toBe(2); // distinct real roots 1, −2
+    expect(realRootCount(polyFromInts([576, 0, -960, 0, 352, 0, -40, 0, 1]))).toBe(8); // ±√2 ± √3 ± √5
+    expect(realRootCount(polyFromInts([1, 0, 1]))).toBe(0);
+    const roots = polynomialRoots(p);
+    expect(roots.filter((z) => z.im === 0)).toHaveLength(1);
+    expect(closeTo(roots[0].re, -2, 1e-12)).toBe(true);
+    expect(roots[1].im).toBeGreaterThan(0);
+    expect(roots[2].im).toBe(-roots[1].im);
+    expect(Math.abs(roots[1].re - 1)).toBeLessThan(1e-7); // a double root is only resolved to ~√ε
+    // Through the whole pipeline (the cubic is irreducible over Q): a complex pair, never three reals.
+    const s = exactSpectrum([[Q(0), Q(1), Q(0)], [Q(0), Q(0), Q(1)], [p[0].neg(), Q(3), Q(0)]]);
+    expect(s.eigenvalues.filter((e) => e.im !== 0)).toHaveLength(2);
   });
 
   it('format helpers: rational and surd text, numeric value without cancellation (arithmetic identities)', () => {

@@ -12,9 +12,16 @@
  *
  * Output order: real roots descending, then complex pairs with the upper half-plane member
  * first; an exact conjugate symmetry is enforced (a real polynomial has conjugate roots).
+ *
+ * Real or complex is decided exactly for rational coefficients: the number of distinct real
+ * roots comes from a Sturm sequence (J. C. F. Sturm, 1835; e.g. S. Basu, R. Pollack &
+ * M.-F. Roy, "Algorithms in Real Algebraic Geometry", §2.2, from memory), and the roots
+ * with the smallest relative imaginary parts take that many real places. A nearly real
+ * complex pair is therefore never reported as two real roots. Plain-number input falls
+ * back to the tolerance REAL_ROOT_RELATIVE_IMAG.
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import type { Rational } from './rational';
+import { Rational } from './rational';
 import { polyEvalComplex, type Complex } from './polynomial';
 
 /**
@@ -54,7 +61,74 @@ export function polynomialRoots(coeffs: (Rational | number)[]): Complex[] {
   }
   const deriv = monic.slice(1).map((x, i) => x * (i + 1));
   const polished = raw.map((z) => polish(monic, deriv, z));
-  return symmetrize(polished);
+  const exact = coeffs.every((x) => x instanceof Rational);
+  return symmetrize(polished, exact ? realRootCount(coeffs as Rational[]) : null);
+}
+
+/** Number of distinct real roots of a nonzero rational polynomial, by a Sturm sequence. */
+export function realRootCount(p: Rational[]): number {
+  const f = primitive(p);
+  if (f.length < 2) return 0;
+  const seq: bigint[][] = [f, primitive(f.slice(1).map((c, i) => Rational.fromInt(c * BigInt(i + 1))))];
+  while (seq[seq.length - 1].length > 1) {
+    const r = signedRemainder(seq[seq.length - 2], seq[seq.length - 1]);
+    if (r.length === 0) break; // not square-free: the last term is the gcd; counts stay distinct roots
+    seq.push(r);
+  }
+  const changes = (signs: number[]): number => {
+    let count = 0;
+    let last = 0;
+    for (const sg of signs) {
+      if (sg === 0) continue;
+      if (last !== 0 && sg !== last) count++;
+      last = sg;
+    }
+    return count;
+  };
+  const lead = (q: bigint[]): number => (q[q.length - 1] > 0n ? 1 : -1);
+  const atPlus = seq.map(lead);
+  const atMinus = seq.map((q) => lead(q) * ((q.length - 1) % 2 === 0 ? 1 : -1));
+  return changes(atMinus) - changes(atPlus);
+}
+
+/** Integer multiple of p by a positive factor, content removed (signs preserved). */
+function primitive(p: Rational[]): bigint[] {
+  let n = p.length;
+  while (n > 0 && p[n - 1].isZero()) n--;
+  let den = 1n;
+  for (let i = 0; i < n; i++) if (p[i].den !== 1n) den = (den / gcdBig(den, p[i].den)) * p[i].den;
+  return contentFree(p.slice(0, n).map((c) => c.num * (den / c.den)));
+}
+
+function contentFree(a: bigint[]): bigint[] {
+  let g = 0n;
+  for (const c of a) if (c !== 0n) g = gcdBig(g, c);
+  return g > 1n ? a.map((c) => c / g) : a;
+}
+
+function gcdBig(a: bigint, b: bigint): bigint {
+  if (a < 0n) a = -a;
+  if (b < 0n) b = -b;
+  while (b !== 0n) [a, b] = [b, a % b];
+  return a;
+}
+
+/** −(positive multiple of a mod b), trimmed and content-free: the next Sturm term. */
+function signedRemainder(a: bigint[], b: bigint[]): bigint[] {
+  const r = a.slice(); // working copy, reduced in place
+  const db = b.length - 1;
+  const lc = b[db];
+  const absLc = lc < 0n ? -lc : lc;
+  const sgn = lc < 0n ? -1n : 1n;
+  for (let k = r.length - 1; k >= db; k--) {
+    const f = r[k];
+    // r ← |lc|·r − sign(lc)·f·x^{k−db}·b: multiplies by a positive number, cancels r[k].
+    for (let i = 0; i <= k; i++) r[i] *= absLc;
+    if (f !== 0n) for (let j = 0; j <= db; j++) r[k - db + j] -= sgn * f * b[j];
+  }
+  let n = db;
+  while (n > 0 && r[n - 1] === 0n) n--;
+  return contentFree(r.slice(0, n).map((c) => -c));
 }
 
 function abs2(z: Complex): number {
@@ -81,15 +155,28 @@ function polish(p: number[], dp: number[], z0: Complex): Complex {
   return z;
 }
 
-function symmetrize(roots: Complex[]): Complex[] {
+function symmetrize(roots: Complex[], realCount: number | null): Complex[] {
   const reals: number[] = [];
   const upper: Complex[] = [];
   const lower: Complex[] = [];
-  for (const z of roots) {
-    const mod = Math.hypot(z.re, z.im);
-    if (Math.abs(z.im) <= REAL_ROOT_RELATIVE_IMAG * mod) reals.push(z.re);
+  const relImag = (z: Complex): number => Math.abs(z.im) / Math.max(Math.hypot(z.re, z.im), Number.MIN_VALUE);
+  // With an exact count, the realCount roots of smallest relative imaginary part are real.
+  const order = roots.map((z, i) => i).sort((i, j) => relImag(roots[i]) - relImag(roots[j]));
+  const isReal = new Array<boolean>(roots.length).fill(false);
+  order.forEach((idx, rank) => {
+    isReal[idx] = realCount !== null ? rank < realCount : relImag(roots[idx]) <= REAL_ROOT_RELATIVE_IMAG;
+  });
+  roots.forEach((z, i) => {
+    if (isReal[i]) reals.push(z.re);
     else if (z.im > 0) upper.push(z);
     else lower.push(z);
+  });
+  // The exact count may call a root complex whose computed imaginary part is exactly 0
+  // (a pair so close to real that rounding split it along the real axis): such roots land
+  // in `lower`; move half of them to `upper` so they pair up.
+  while (lower.length > upper.length && lower.some((z) => z.im === 0)) {
+    const k = lower.findIndex((z) => z.im === 0);
+    upper.push(lower.splice(k, 1)[0]);
   }
   // Pair each upper root with its nearest lower conjugate and average the pair.
   const pairs: Complex[] = [];
@@ -103,7 +190,10 @@ function symmetrize(roots: Complex[]): Complex[] {
     });
     if (best >= 0) {
       const l = unused.splice(best, 1)[0];
-      pairs.push({ re: (u.re + l.re) / 2, im: (u.im - l.im) / 2 });
+      // A pair split along the real axis by rounding: its half-width is the best estimate
+      // of the (tiny) imaginary part, and keeps the pair visibly complex.
+      const im = (u.im - l.im) / 2 || Math.abs(u.re - l.re) / 2 || Number.MIN_VALUE;
+      pairs.push({ re: (u.re + l.re) / 2, im });
     } else pairs.push(u);
   }
   for (const l of unused) pairs.push({ re: l.re, im: -l.im }); // unmatched (should not happen)
