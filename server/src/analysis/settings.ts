@@ -27,7 +27,10 @@ export interface AnalysisSettings {
   precision: number;
   /** Fixed-point format checked besides float32 (Qm.n: m integer bits, n fractional bits), or null. */
   fixedPoint: { integerBits: number; fractionalBits: number } | null;
-  /** Relative pole movement under rounding above which `float32-sensitive` is reported. */
+  /**
+   * Relative change of a pole's continuous equivalent ln(z) under rounding above which
+   * `float32-sensitive` is reported (1e-3 = a 0.1 % change in a time constant; our choice).
+   */
   quantizationThreshold: number;
   /** Sample-period rules: T ≤ τ_min / this (common practice). */
   periodTimeConstantDivisor: number;
@@ -52,7 +55,7 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   stateMatrixNames: [],
   precision: 6,
   fixedPoint: null,
-  quantizationThreshold: 1e-4,
+  quantizationThreshold: 1e-3,
   periodTimeConstantDivisor: 10,
   periodMinSamplesPerOscillation: 10,
   timeBudgetMs: 2000,
