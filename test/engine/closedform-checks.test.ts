@@ -323,6 +323,38 @@ describe('check against a multiprecision reference', () => {
   });
 });
 
+describe('degenerate and extreme input', () => {
+  it('the zero matrix: e^{0t} = I and 0^k is I only at k = 0 (standard identity)', () => {
+    const Z = ints([[0, 0, 0], [0, 0, 0], [0, 0, 0]]);
+    const cont = closed(Z);
+    expect(entryTerms(cont, 1, 1)).toEqual([e('1', 0, '0')]);
+    expect(entryTerms(cont, 0, 1)).toEqual([]);
+    const disc = closed(Z, 'discrete');
+    expect(entryTerms(disc, 2, 2)).toEqual(['1@0']);
+    expect(evaluateTransition(disc, 1).flat().every((x) => x === 0)).toBe(true);
+  });
+
+  it('entries of 1e200 stay exact and finite: [[λ, 1], [0, −λ]] gives sinh(λt)/λ in entry (1,2) (standard identity)', () => {
+    const big = Rational.fromNumber(1e200);
+    const A = [[big, Q(1)], [Q(0), big.neg()]];
+    const root = (v: Rational) => ({ re: v.toNumber(), im: 0, exact: { p: v, r: Q(0), d: Q(1) }, text: v.toString() });
+    const factor = (v: Rational) => ({ coeffs: [v.neg(), Q(1)], degree: 1, algebraic: 1, index: 1, blocks: [1], geometric: 1, roots: [root(v)] });
+    // Hand-built exact spectrum (the spectrum code is not what is tested here).
+    const spectrum: Spectrum = {
+      n: 2, exact: true, charPoly: { coeffs: [], exactCoeffs: null }, minimalPoly: null,
+      factors: [factor(big), factor(big.neg())],
+      eigenvalues: [big, big.neg()].map((v) => ({ ...root(v), algebraic: 1, geometric: 1, blocks: [1] })),
+      defective: false, clusterTolerance: null, nearRepeated: [], notes: [],
+    };
+    const cf = transitionClosedForm(A, spectrum, 'continuous');
+    expect(cf.exactCoefficients).toBe(true);
+    const t = 1e-200; // λt = 1 up to the rounding of 1e200: e^{At} = [[e, sinh(1)/λ], [0, 1/e]].
+    const value = evaluateTransition(cf, t);
+    expect(relativeError([[value[0][1] * 1e200]], [[Math.sinh(1)]])).toBeLessThanOrEqual(DEFAULT_REL);
+    expect(cf.check.passed).toBe(true);
+  });
+});
+
 describe('bad input gets a clear error', () => {
   const spec = exactSpectrum(ints([[1, 0], [0, 2]]));
   it('rejects non-square, oversized and mismatched input with a RangeError that says why', () => {
