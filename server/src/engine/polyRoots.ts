@@ -21,7 +21,7 @@
  * back to the tolerance REAL_ROOT_RELATIVE_IMAG.
  */
 import { EigenvalueDecomposition, Matrix } from 'ml-matrix';
-import { Rational } from './rational';
+import { Rational, bitLength } from './rational';
 import { polyEvalComplex, type Complex } from './polynomial';
 
 /**
@@ -35,34 +35,66 @@ const REAL_ROOT_RELATIVE_IMAG = 1e-10;
 const NEWTON_STEPS = 6;
 
 export function polynomialRoots(coeffs: (Rational | number)[]): Complex[] {
-  const c = coeffs.map((x) => (typeof x === 'number' ? x : x.toNumber()));
-  while (c.length > 0 && c[c.length - 1] === 0) c.pop();
-  const deg = c.length - 1;
+  const exact = coeffs.length > 0 && coeffs.every((x) => x instanceof Rational);
+  // Work in t = x/σ with σ = 2^s near the Fujiwara root bound max_k |c_{n−k}/c_n|^{1/k}:
+  // the scaled monic coefficients are ≤ 1 in size, which balances the companion matrix
+  // (unbalanced ones cost QR iterations and accuracy). For rational input the scaling is
+  // done exactly before rounding to doubles, so coefficients beyond double range still work.
+  const { monic, log2Sigma } = exact ? scaledMonicExact(coeffs as Rational[]) : scaledMonicFloat(coeffs as number[]);
+  const deg = monic.length - 1;
   if (deg < 1) return [];
-  const lc = c[deg];
-  const monic = c.map((x) => x / lc);
+  if (!monic.every(Number.isFinite)) throw new RangeError('polynomial coefficients are not finite numbers');
+  if (Math.abs(log2Sigma) > 1000) throw new RangeError('polynomial roots are beyond the range of double precision');
+  const sigma = 2 ** log2Sigma;
   let raw: Complex[];
   if (deg === 1) raw = [{ re: -monic[0], im: 0 }];
   else {
-    // Substitute x = σ·t with σ a power of two near the Fujiwara root bound
-    // max_k |c_{n−k}|^{1/k}: the scaled coefficients are ≤ 1 in size, which balances the
-    // companion matrix (unbalanced ones cost QR iterations and accuracy); powers of two
-    // keep the scaling exact.
-    let bound = 0;
-    for (let k = 1; k <= deg; k++) bound = Math.max(bound, Math.abs(monic[deg - k]) ** (1 / k));
-    const sigma = bound > 0 && Number.isFinite(bound) ? 2 ** Math.round(Math.log2(bound)) : 1;
-    const scaled = monic.map((x, i) => x / sigma ** (deg - i));
     // Companion matrix with the monic coefficients in the last column.
     const comp = Matrix.zeros(deg, deg);
     for (let i = 1; i < deg; i++) comp.set(i, i - 1, 1);
-    for (let i = 0; i < deg; i++) comp.set(i, deg - 1, -scaled[i]);
+    for (let i = 0; i < deg; i++) comp.set(i, deg - 1, -monic[i]);
     const evd = new EigenvalueDecomposition(comp, { assumeSymmetric: false });
-    raw = evd.realEigenvalues.map((re, i) => ({ re: re * sigma, im: evd.imaginaryEigenvalues[i] * sigma }));
+    raw = evd.realEigenvalues.map((re, i) => ({ re, im: evd.imaginaryEigenvalues[i] }));
   }
   const deriv = monic.slice(1).map((x, i) => x * (i + 1));
-  const polished = raw.map((z) => polish(monic, deriv, z));
-  const exact = coeffs.every((x) => x instanceof Rational);
+  const polished = raw.map((z) => polish(monic, deriv, z)).map((z) => ({ re: z.re * sigma, im: z.im * sigma }));
   return symmetrize(polished, exact ? realRootCount(coeffs as Rational[]) : null);
+}
+
+function scaledMonicFloat(coeffs: number[]): { monic: number[]; log2Sigma: number } {
+  const c = coeffs.slice();
+  while (c.length > 0 && c[c.length - 1] === 0) c.pop();
+  const deg = c.length - 1;
+  if (deg < 1) return { monic: [], log2Sigma: 0 };
+  const monic = c.map((x) => x / c[deg]);
+  let bound = 0;
+  for (let k = 1; k <= deg; k++) bound = Math.max(bound, Math.abs(monic[deg - k]) ** (1 / k));
+  const log2Sigma = bound > 0 && Number.isFinite(bound) ? Math.round(Math.log2(bound)) : 0;
+  return { monic: monic.map((x, i) => x / 2 ** (log2Sigma * (deg - i))), log2Sigma };
+}
+
+function scaledMonicExact(coeffs: Rational[]): { monic: number[]; log2Sigma: number } {
+  const c = coeffs.slice();
+  while (c.length > 0 && c[c.length - 1].isZero()) c.pop();
+  const deg = c.length - 1;
+  if (deg < 1) return { monic: [], log2Sigma: 0 };
+  const lc = c[deg];
+  const m = c.map((x) => x.div(lc));
+  // log2 |m_i| from bit lengths (within 1), enough to pick a power-of-two scale.
+  let best = -Infinity;
+  for (let k = 1; k <= deg; k++) {
+    const x = m[deg - k];
+    if (x.isZero()) continue;
+    const log2 = bitLength(x.num < 0n ? -x.num : x.num) - bitLength(x.den);
+    best = Math.max(best, log2 / k);
+  }
+  const s = Number.isFinite(best) ? Math.round(best) : 0;
+  const monic = m.map((x, i) => {
+    const e = s * (deg - i); // divide by 2^e exactly
+    const scaled = e >= 0 ? Rational.of(x.num, x.den << BigInt(e)) : Rational.of(x.num << BigInt(-e), x.den);
+    return scaled.toNumber();
+  });
+  return { monic, log2Sigma: s };
 }
 
 /** Number of distinct real roots of a nonzero rational polynomial, by a Sturm sequence. */
