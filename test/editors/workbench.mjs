@@ -214,12 +214,19 @@ async function openAt(page, absPath, line, col) {
   // workbench's keybindings are ready, and a hover left open can swallow the first key.
   let opened = false;
   for (let attempt = 0; attempt < 3 && !opened; attempt++) {
+    // Take the mouse out of any open hover (a hover under the mouse stays open and keeps focus).
+    await page.mouse.move(200, 700);
     await page.keyboard.press('Escape');
     await page.keyboard.press('Escape');
+    await page.locator('.part.editor').first().click({ position: { x: 400, y: 600 } }).catch(() => undefined);
     await page.keyboard.press('Control+KeyP');
     if (!(await until('quick open', 5000, () => quickInput.isVisible()))) continue;
     await quickInput.fill(absPath);
-    await until('quick open result', 10_000, async () => (await page.locator('.quick-input-list .monaco-list-row').count()) > 0);
+    const name = basename(absPath);
+    const listed = await until('quick open result', 10_000, () =>
+      page.evaluate((n) => [...document.querySelectorAll('.quick-input-list .monaco-list-row')].some((r) => r.textContent.includes(n)), name),
+    );
+    if (!listed) continue;
     await page.keyboard.press('Enter');
     opened = Boolean(await until('editor tab', 10_000, () => activeTabIs(basename(absPath))));
   }
@@ -332,6 +339,48 @@ async function lookAtReport(page, outDir) {
   return Boolean(opened);
 }
 
+async function runPaletteCommand(page, title) {
+  await page.keyboard.press('Escape');
+  await page.keyboard.press('Control+Shift+KeyP');
+  const input = page.locator('.quick-input-widget input');
+  await until('command palette', 5000, () => input.isVisible());
+  await input.fill(`>${title}`);
+  await wait(700);
+  await page.keyboard.press('Enter');
+}
+
+/** The palette commands that change or ask something, on the file currently open. */
+async function lookAtCommands(page, outDir, file) {
+  const notes = {};
+  // Switch Continuous/Discrete rewrites the pragma in the buffer; undone afterwards, never saved.
+  await page.locator('.editor-group-container.active .monaco-editor .view-lines').first().click({ position: { x: 5, y: 5 } }).catch(() => undefined);
+  const before = await readEditorState(page);
+  await runPaletteCommand(page, 'eigenlens: Switch Continuous/Discrete');
+  await wait(3000);
+  const after = await readEditorState(page);
+  await page.screenshot({ path: join(outDir, 'switch-domain.png') });
+  notes.switchDomain = { file, lensesBefore: before?.lenses ?? [], lensesAfter: after?.lenses ?? [] };
+  await page.keyboard.press('Escape');
+  await page.keyboard.press('Control+KeyZ');
+  await wait(1500);
+  notes.switchDomain.lensesAfterUndo = (await readEditorState(page))?.lenses ?? [];
+  // Discretize at Period…: the input box, then whatever the server answers.
+  await runPaletteCommand(page, 'eigenlens: Discretize at Period');
+  const input = page.locator('.quick-input-widget input');
+  if (await until('period input', 5000, () => input.isVisible())) {
+    await input.fill('0');
+    await wait(400);
+    notes.discretizeRejectsZero = await page.evaluate(() => document.querySelector('.quick-input-message')?.textContent?.trim() ?? '');
+    await input.fill('0.01');
+    await page.keyboard.press('Enter');
+    await wait(2500);
+    notes.discretizeToasts = await page.evaluate(() => [...document.querySelectorAll('.notifications-toasts .notification-list-item-message')].map((e) => e.textContent.trim()));
+    await page.screenshot({ path: join(outDir, 'discretize.png') });
+    await page.keyboard.press('Control+KeyZ');
+  }
+  return notes;
+}
+
 async function main() {
   const outDir = resolve(args.out ?? join(repo, '.editor-look', new Date().toISOString().replace(/[:.]/g, '-')));
   mkdirSync(outDir, { recursive: true });
@@ -411,6 +460,7 @@ async function main() {
 
   let browser;
   const summaries = [];
+  let commandNotes = {};
   try {
     const up = await until('workbench answering', 60_000, async () => (await fetch(`http://127.0.0.1:${port}/healthz`)).ok);
     if (!up) throw new Error(`the workbench did not answer on port ${port}:\n${serverLog.slice(-2000)}`);
@@ -432,9 +482,10 @@ async function main() {
         summaries.push({ file, error: String(err) });
       }
     }
+    const commands = (commandNotes = await lookAtCommands(page, outDir, files[files.length - 1]).catch((err) => ({ error: String(err) })));
     const reportOpened = await lookAtReport(page, outDir).catch((err) => String(err));
     writeFileSync(join(outDir, 'console-errors.txt'), consoleErrors.join('\n'));
-    writeFileSync(join(outDir, 'summary.json'), JSON.stringify({ files: summaries, reportOpened }, null, 2));
+    writeFileSync(join(outDir, 'summary.json'), JSON.stringify({ files: summaries, commands, reportOpened }, null, 2));
   } finally {
     await browser?.close().catch(() => undefined);
     writeFileSync(join(outDir, 'workbench.log'), serverLog);
@@ -453,6 +504,7 @@ async function main() {
     const sq = s.squiggles ? Object.entries(s.squiggles).filter(([, n]) => n).map(([k, n]) => `${n} ${k}`).join(', ') || 'none' : '?';
     say(`${s.file}: hover ${s.hover ? `${s.hover.box.width}x${s.hover.box.height}px via ${s.hover.how}${s.hover.scrolls ? ', scrolls' : ''}, ${s.hover.images.length} image(s)` : 'NONE'}; lenses ${s.lenses.length}; squiggles ${sq}`);
   }
+  say(`commands: ${JSON.stringify(commandNotes)}`);
   say(`screenshots and text in ${outDir}`);
 }
 
