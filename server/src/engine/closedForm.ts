@@ -31,7 +31,12 @@
  *
  * The result always carries a check against an independent reference (see `checkClosedForm`)
  * so that a numerically meaningless closed form (nearly repeated eigenvalues) is reported
- * as not passed rather than shown as a silently wrong number.
+ * as not passed rather than shown as a silently wrong number. The reference is the double
+ * exponential / repeated products; for rational input a sample that fails against it is
+ * re-checked against a multiprecision reference, because the double reference can itself be
+ * wrong on strongly non-normal matrices. Sample times are capped by ‖A‖_∞·t ≤ 100, so on
+ * matrices with large entries and slow modes the check samples early times only (every
+ * coefficient still enters Φ there).
  */
 import { Rational } from './rational';
 import { polyMul as polyMulQ, polyPow as polyPowQ } from './polynomial';
