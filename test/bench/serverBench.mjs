@@ -124,6 +124,39 @@ function histogram(diagnostics) {
   return counts;
 }
 
+/** Matrices left unanalysed by a pass that ran out of the server's per-document time budget. */
+function unanalysedCount(params) {
+  const limit = params.diagnostics.find((d) => d.code === 'analysis-limit');
+  if (!limit) return 0;
+  return Number(/(\d+) matri/.exec(limit.message)?.[1] ?? NaN);
+}
+
+/**
+ * The server analyses a document within a time budget per pass and publishes what it has;
+ * only a new version starts another pass. To reach complete diagnostics the way a typing user
+ * would, toggle a trailing space on the first line (a comment) until a pass finishes everything.
+ * Returns the diagnostics that were complete, the time they arrived, the passes and the version.
+ */
+async function nudgeUntilComplete(session, uri, first, firstLine, version) {
+  let params = first.params;
+  let at = first.at;
+  let passes = 1;
+  let spaced = false;
+  while (unanalysedCount(params) > 0 && passes < 60) {
+    version++;
+    const next = session.diagnosticsFor(uri, version, 180_000);
+    const end = firstLine.length + (spaced ? 1 : 0);
+    session.conn.sendNotification('textDocument/didChange', {
+      textDocument: { uri, version },
+      contentChanges: [spaced ? { range: { start: { line: 0, character: end - 1 }, end: { line: 0, character: end } }, text: '' } : { range: { start: { line: 0, character: end }, end: { line: 0, character: end } }, text: ' ' }],
+    });
+    spaced = !spaced;
+    ({ at, params } = await next);
+    passes++;
+  }
+  return { params, at, passes, version, spaced };
+}
+
 /** One language: spawn, open, hover, edit. */
 export async function languageRun(root, language, { seed, hoverCount, editCount, debounceMs, log }) {
   const file = generateSourceFile(seed, language);
@@ -146,7 +179,15 @@ export async function languageRun(root, language, { seed, hoverCount, editCount,
       serverCpuSecondsAtFirstDiagnostics: cpuSecondsOf(session.proc.pid),
       rssAfterOneFile: memoryOf(session.proc.pid),
     };
-    log(`server ${language}: initialize ${out.spawnToInitializeMs.toFixed(0)} ms, first diagnostics ${out.spawnToFirstDiagnosticsMs.toFixed(0)} ms after spawn (${out.diagnostics} diagnostics)`);
+    out.firstPassUnanalysed = unanalysedCount(first.params);
+    log(`server ${language}: initialize ${out.spawnToInitializeMs.toFixed(0)} ms, first diagnostics ${out.spawnToFirstDiagnosticsMs.toFixed(0)} ms after spawn (${out.diagnostics} diagnostics, ${out.firstPassUnanalysed} matrices left for later passes)`);
+    const complete = await nudgeUntilComplete(session, uri, first, file.text.slice(0, file.text.indexOf('\n')), 1);
+    out.openToCompleteDiagnosticsMs = complete.at - openAt;
+    out.passesToComplete = complete.passes;
+    out.completeDiagnostics = complete.params.diagnostics.length;
+    out.completeDiagnosticCodes = histogram(complete.params.diagnostics);
+    out.serverCpuSecondsAtCompleteDiagnostics = cpuSecondsOf(session.proc.pid);
+    log(`server ${language}: complete diagnostics ${out.openToCompleteDiagnosticsMs.toFixed(0)} ms after didOpen, ${complete.passes} passes`);
 
     // Hovers on the names of matrices with n ≤ 8, in random order; sequential, one in flight.
     const rng = makeRng(seed + 17);
@@ -168,7 +209,7 @@ export async function languageRun(root, language, { seed, hoverCount, editCount,
     const candidates = file.matrices.filter((m) => m.kind === 'integer');
     const totals = [];
     const cpuBeforeEdits = cpuSecondsOf(session.proc.pid);
-    let version = 1;
+    let version = complete.version;
     for (let i = 0; i < editCount; i++) {
       const m = rng.pick(candidates);
       const entry = rng.pick(rng.pick(m.entries));
@@ -218,17 +259,20 @@ async function memoryRun(root, { log }) {
       const language = i % 2 === 0 ? 'python' : 'typescript';
       const file = generateSourceFile(9000 + i, language);
       const uri = pathToFileURL(join(root, 'dist', `bench-memory-${i}.${EXTENSION[language]}`)).href;
-      pending.push(session.diagnosticsFor(uri, 1, 180_000));
+      pending.push({ uri, firstLine: file.text.slice(0, file.text.indexOf('\n')), first: session.diagnosticsFor(uri, 1, 180_000) });
       session.open(uri, LANGUAGE_ID[language], file.text);
     }
-    await Promise.all(pending);
+    for (const p of pending) p.first = await p.first;
+    const afterFirstPass = memoryOf(session.proc.pid);
+    // Every file analysed completely, so the memory figure covers all 3,000 matrices.
+    for (const p of pending) await nudgeUntilComplete(session, p.uri, p.first, p.firstLine, 1);
     const allDiagnosticsMs = performance.now() - t0;
     // Settle: let a pending garbage collection or timer finish before reading memory.
     await new Promise((r) => setTimeout(r, 500));
     const mem = memoryOf(session.proc.pid);
     mem.serverCpuSeconds = cpuSecondsOf(session.proc.pid);
     log(`server memory: ${mem.rssMB?.toFixed(1)} MB resident after ten files (peak ${mem.peakRssMB?.toFixed(1)} MB), all diagnostics in ${allDiagnosticsMs.toFixed(0)} ms`);
-    return { files: 10, allDiagnosticsMs, ...mem };
+    return { files: 10, allDiagnosticsMs, afterFirstPass, ...mem };
   } finally {
     out_stderr(session, log);
     await session.stop();
