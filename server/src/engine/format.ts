@@ -8,23 +8,13 @@
  * so equal numbers have equal fields.
  */
 import { Rational } from './rational';
+import { isqrt } from './quadField';
 import type { QuadraticNumber } from './types';
 
-/** ⌊√n⌋ for n ≥ 0 by Newton's method on BigInt. */
+/** ⌊√n⌋ for n ≥ 0; one implementation (quadField's), safe beyond the double range. */
 export function integerSqrt(n: bigint): bigint {
   if (n < 0n) throw new RangeError('integerSqrt of a negative number');
-  if (n < 2n) return n;
-  let x = BigInt(Math.floor(Math.sqrt(Number(n))));
-  if (x === 0n) x = 1n;
-  // Newton from a float start; the loops fix the last few units exactly.
-  for (;;) {
-    const y = (x + n / x) >> 1n;
-    if (y >= x - 1n && y <= x + 1n) { x = y; break; }
-    x = y;
-  }
-  while (x * x > n) x--;
-  while ((x + 1n) * (x + 1n) <= n) x++;
-  return x;
+  return isqrt(n);
 }
 
 /**
