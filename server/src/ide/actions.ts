@@ -2,13 +2,17 @@
  * Code actions at a range, as plain data: quick fixes tied to our diagnostics (read the
  * matrix in the other time domain by adding or rewriting the pragma), and rewrites that
  * write code (insert the closed-form Φ as a function; for every state matrix at once as a
- * source action).
+ * source action; insert the discrete-time model of a continuous state matrix whose period
+ * is known, by ZOH, Tustin, forward and backward Euler; the same as C initializers inside a
+ * comment block, for editors without our clipboard command).
  */
 import type { DocumentReport, MatrixReport } from '../analysis/report';
 import type { SourceLanguage, Span } from '../syntax/types';
 import type { TextEdit } from './edits';
 import { domainEdit } from './pragmaEdit';
 import { phiFunctionName, phiInsertEdit, supportsPhiCode } from './phiCode';
+import { cCommentInsertEdit, discreteInsertEdit, METHOD_LABEL } from './discreteCode';
+import type { DiscretizationMethod } from '../engine/discretize';
 
 export type ActionKind = 'quickfix' | 'refactor.rewrite' | 'source';
 
@@ -34,7 +38,12 @@ export interface ActionRequest {
   diagnosticCodes: string[];
   /** Only these kinds (prefix match, as LSP `only`); empty = all. */
   only: string[];
+  /** Significant digits for generated code (17 = shortest round-trip). */
+  codePrecision?: number;
 }
+
+/** The methods offered as insert actions, in menu order (first-order hold only through eigenlens/discretize). */
+export const INSERT_METHODS: readonly DiscretizationMethod[] = ['zoh', 'tustin', 'euler', 'backward-euler'];
 
 const overlaps = (a: Span, b: Span) => a.start <= b.end && b.start <= a.end;
 
@@ -76,12 +85,45 @@ export function codeActionsAt(report: DocumentReport, text: string, language: So
         });
       }
     }
+    if (matrix.domain === 'continuous' && matrix.period !== null && wanted('refactor.rewrite', request.only)) {
+      out.push(...discreteActions(report, matrix, text, language, matrix.period, request.codePrecision ?? 17));
+    }
   }
   if (supportsPhiCode(language) && wanted('source', request.only)) {
     const edits = states.filter((m) => m.transition).map((m) => phiInsertEdit(m, language, text)).filter((e): e is TextEdit => e !== null);
     if (edits.length > 0) {
       out.push({ title: `Insert the transition function of every state matrix (${edits.length})`, kind: 'source', edits, fixes: [] });
     }
+  }
+  return out;
+}
+
+function periodWords(T: number): string {
+  return `T = ${String(T)} s`;
+}
+
+/** Insert/update the discrete model by each method, then the C initializers as a comment. */
+function discreteActions(report: DocumentReport, matrix: MatrixReport, text: string, language: SourceLanguage, period: number, precision: number): PlainCodeAction[] {
+  const out: PlainCodeAction[] = [];
+  for (const method of INSERT_METHODS) {
+    const insert = discreteInsertEdit(report, matrix, language, text, { period, method, precision });
+    if (!('edit' in insert)) continue;
+    out.push({
+      title: `${insert.replacing ? 'Update' : 'Insert'} discrete model of ${label(matrix)} (${METHOD_LABEL[method]}, ${periodWords(period)})`,
+      kind: 'refactor.rewrite',
+      edits: [insert.edit],
+      fixes: [],
+    });
+  }
+  const method: DiscretizationMethod = matrix.discrete?.method ?? 'zoh';
+  const c = cCommentInsertEdit(report, matrix, language, text, { period, method, precision });
+  if ('edit' in c) {
+    out.push({
+      title: `${c.replacing ? 'Update' : 'Insert'} C initializers of the discrete model of ${label(matrix)} as a comment (${METHOD_LABEL[method]}, ${periodWords(period)})`,
+      kind: 'refactor.rewrite',
+      edits: [c.edit],
+      fixes: [],
+    });
   }
   return out;
 }

@@ -3,8 +3,9 @@
  * On a state matrix (its name or anywhere in its literal): verdict first, then each mode as
  * a sentence, structure notes, the closed-form transition matrix, its numeric check, a small
  * plot of the modal responses, and the caution that a linear model is not proof of safety.
- * On an entry: its evaluated value. On input/output/feedthrough matrices: shape, role and
- * the state matrix of their model.
+ * On an entry: its evaluated value. On input/output/feedthrough matrices: shape, role,
+ * the state matrix of their model and its controllability / observability. The state hover
+ * also has a compact model section (transfer function, ranks, period advice, rounding).
  */
 import type { DocumentReport, MatrixReport } from '../analysis/report';
 import type { AnalysisSettings } from '../analysis/settings';
@@ -13,6 +14,7 @@ import { SAFETY_CAUTION_SHORT } from '../analysis/caution';
 import { entryText, escapeTableCell, eigenvalueText, eigenvalueWithDecimal, formatNumber, transitionTitle } from './format';
 import { behaviourText, multiplicityText, verdictHeadline } from './summary';
 import { modalResponseSvg, svgDataUri } from './plot';
+import { modelLines, partnerModelLine } from './modelText';
 
 export interface HoverResult {
   markdown: string;
@@ -45,7 +47,12 @@ export function matrixAt(report: DocumentReport, offset: number): { matrix: Matr
   return found;
 }
 
-export function hoverAt(report: DocumentReport, text: string, offset: number, settings: HoverSettings): HoverResult | null {
+export interface HoverOptions {
+  /** 'compact' (the hover) or 'none' (the full report writes its own complete model section). */
+  model?: 'compact' | 'none';
+}
+
+export function hoverAt(report: DocumentReport, text: string, offset: number, settings: HoverSettings, options: HoverOptions = {}): HoverResult | null {
   void text;
   const hit = matrixAt(report, offset);
   if (!hit) return null;
@@ -60,7 +67,8 @@ export function hoverAt(report: DocumentReport, text: string, offset: number, se
     }
   }
   const span = onName && matrix.nameSpan ? matrix.nameSpan : matrix.span;
-  const markdown = matrix.role === 'state' ? stateMarkdown(matrix, precision) : companionMarkdown(report, matrix);
+  const model = options.model === 'none' ? [] : matrix.role === 'state' ? modelLines(report, matrix, precision, false) : [];
+  const markdown = matrix.role === 'state' ? stateMarkdown(matrix, precision, model) : companionMarkdown(report, matrix);
   return { markdown, span };
 }
 
@@ -87,7 +95,7 @@ function entryMarkdown(matrix: MatrixReport, row: number, col: number, precision
   return `${where} ≈ ${formatNumber(value.value, precision)} (floating point: the entry uses a function or constant with no exact value)`;
 }
 
-function stateMarkdown(matrix: MatrixReport, precision: number): string {
+function stateMarkdown(matrix: MatrixReport, precision: number, model: string[]): string {
   const out: string[] = [];
   const exactness = matrix.exact && matrix.spectrum?.exact ? 'exact arithmetic' : 'floating point';
   out.push(`**${label(matrix)}** · ${matrix.rows}×${matrix.cols} state matrix · ${domainWords(matrix, precision)} · ${exactness}`);
@@ -142,6 +150,10 @@ function stateMarkdown(matrix: MatrixReport, precision: number): string {
         : `**Check failed**: differs from ${reference} by ${formatNumber(check.residual, 2)} (relative) at ${transition.variable} = ${at} — do not rely on this closed form.`,
     );
   }
+  if (model.length) {
+    out.push('');
+    out.push(...model);
+  }
   if (matrix.skipped.length) {
     out.push('');
     for (const reason of matrix.skipped) out.push(`_Not computed:_ ${reason}`);
@@ -185,5 +197,7 @@ function companionMarkdown(report: DocumentReport, matrix: MatrixReport): string
           ? matrix.rows === matrix.cols
           : true;
   if (expected[matrix.role]) out.push('', `${fits ? 'Shape fits' : '**Shape does not fit**'}: expected ${expected[matrix.role]}.`);
+  const reach = partnerModelLine(report, matrix);
+  if (reach) out.push('', reach);
   return out.join('\n');
 }

@@ -1,12 +1,15 @@
 /**
  * The full analysis as one Markdown document (custom request `eigenlens/report`): for each
  * state matrix the hover's content, then the characteristic and minimal polynomials, the
- * discrete-time model when one was computed, every finding, and the full caution.
+ * discrete-time model when one was computed, the complete model section (every transfer
+ * function entry, sampled ranks, every period rule, rounding), every finding of the
+ * matrix and of its partners, and the full caution.
  */
 import type { DocumentReport, MatrixReport } from '../analysis/report';
 import { SAFETY_CAUTION } from '../analysis/caution';
 import { formatNumber } from './format';
 import { hoverAt } from './hover';
+import { modelLines } from './modelText';
 
 function polynomialText(coeffs: (string | number)[], precision: number): string {
   const terms: string[] = [];
@@ -27,7 +30,7 @@ function matrixSection(doc: DocumentReport, matrix: MatrixReport, precision: num
   const out: string[] = [];
   out.push(`## ${matrix.name ?? 'Matrix'} (line ${matrix.line})`);
   out.push('');
-  const hover = hoverAt(doc, '', (matrix.nameSpan ?? matrix.span).start, { precision });
+  const hover = hoverAt(doc, '', (matrix.nameSpan ?? matrix.span).start, { precision }, { model: 'none' });
   // The hover ends with its short caution; the report carries the full one once at the end.
   const body = hover?.markdown.split('\n').filter((line) => !/^_.*not proof of safety.*_$/.test(line)) ?? [];
   out.push(...body);
@@ -51,8 +54,13 @@ function matrixSection(doc: DocumentReport, matrix: MatrixReport, precision: num
     block('Dd', discrete.Dd);
     block('Qd', discrete.Qd);
   }
-  if (matrix.findings.length) {
+  const model = modelLines(doc, matrix, precision, true);
+  if (model.length) out.push('', ...model);
+  // Findings on the model's other matrices (B: uncontrollable, C: unobservable) belong here too.
+  const partners = doc.matrices.filter((m) => m.index !== matrix.index && m.modelId !== null && m.modelId === matrix.modelId && m.findings.length);
+  if (matrix.findings.length || partners.length) {
     out.push('', 'Findings:');
+    for (const p of partners) for (const f of p.findings) out.push(`- \`${f.code}\` (${f.severity}, on ${p.name ?? 'a partner matrix'}): ${f.message}`);
     for (const f of matrix.findings) out.push(`- \`${f.code}\` (${f.severity}): ${f.message}`);
   }
   return out.join('\n');

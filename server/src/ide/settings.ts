@@ -9,9 +9,14 @@ import type { EigenlensUserSettings } from '../shared/protocol';
 export interface IdeSettings {
   analysis: AnalysisSettings;
   codeLensEnabled: boolean;
+  /** Significant digits of inexact entries in generated code; 17 = shortest round-trip text of a double. */
+  codePrecision: number;
 }
 
-export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true };
+/** 17 significant digits always round-trip a double (IEEE 754-2008, §5.12.2), so that is the default for generated code. */
+export const DEFAULT_CODE_PRECISION = 17;
+
+export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true, codePrecision: DEFAULT_CODE_PRECISION };
 
 const DISCRETIZE_METHODS = ['zoh', 'tustin', 'euler', 'backward-euler', 'foh'] as const;
 
@@ -53,7 +58,8 @@ export function settingsFromUser(raw: unknown): IdeSettings {
   const flat = user['codeLens.enabled'];
   if (typeof nested === 'boolean') codeLensEnabled = nested;
   else if (typeof flat === 'boolean') codeLensEnabled = flat;
-  return { analysis, codeLensEnabled };
+  const codePrecision = integerIn(user.codePrecision, 2, 17) ?? DEFAULT_CODE_PRECISION;
+  return { analysis, codeLensEnabled, codePrecision };
 }
 
 function isValidRegex(source: string): boolean {

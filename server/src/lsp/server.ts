@@ -13,6 +13,9 @@
  */
 import {
   CodeActionKind,
+  ErrorCodes,
+  ResponseError,
+  type WorkspaceEdit,
   type Connection,
   createConnection,
   type Diagnostic,
@@ -26,7 +29,21 @@ import { TextDocument } from 'vscode-languageserver-textdocument';
 import { AnalysisCache, analyzeDocument, initAnalysis } from '../analysis/analyze';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
-import { Commands, ReportRequestMethod, SERVER_COMMANDS, SETTINGS_SECTION, type ReportRequestParams, type ReportRequestResult } from '../shared/protocol';
+import {
+  CCodeRequestMethod,
+  Commands,
+  DiscretizeRequestMethod,
+  ReportRequestMethod,
+  SERVER_COMMANDS,
+  SETTINGS_SECTION,
+  type CCodeRequestParams,
+  type CCodeRequestResult,
+  type DiscretizeRequestParams,
+  type ReportRequestParams,
+  type ReportRequestResult,
+} from '../shared/protocol';
+import { CODE_METHODS, cInitializerText, discreteCodeFor, discreteInsertEdit } from '../ide/discreteCode';
+import type { DiscretizationMethod } from '../engine/discretize';
 import { DEFAULT_IDE_SETTINGS, settingsFromUser, type IdeSettings } from '../ide/settings';
 import { hoverAt } from '../ide/hover';
 import { lensesOf } from '../ide/lens';
@@ -236,6 +253,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         span: toSpan(doc, params.range),
         diagnosticCodes: ours.map((d) => d.code as string),
         only: params.context.only ?? [],
+        codePrecision: result.settings.codePrecision,
       });
       return actions.map((a) => toCodeAction(doc, a, ours));
     }),
@@ -269,6 +287,69 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       if (!result) return null;
       const name = decodeURIComponent(params.uri.split('/').pop() ?? params.uri);
       return reportMarkdown(result.report, name, params.matrixIndex, result.settings.analysis.precision);
+    }),
+  );
+
+  /** A method name from a request, the setting's method, or zero-order hold. */
+  function methodOf(raw: unknown, settings: IdeSettings): DiscretizationMethod {
+    if (raw === undefined || raw === null) return settings.analysis.discretizeMethod ?? 'zoh';
+    if (typeof raw === 'string' && (CODE_METHODS as readonly string[]).includes(raw)) return raw as DiscretizationMethod;
+    throw new ResponseError(ErrorCodes.InvalidParams, `Unknown discretization method ${JSON.stringify(raw)}; use one of ${CODE_METHODS.join(', ')}.`);
+  }
+
+  /** Resolves the document and continuous state matrix of a request, or throws InvalidParams. */
+  async function stateMatrixOf(uri: unknown, matrixIndex: unknown) {
+    if (typeof uri !== 'string' || typeof matrixIndex !== 'number') throw new ResponseError(ErrorCodes.InvalidParams, 'The request needs { uri, matrixIndex }.');
+    const doc = documents.get(uri);
+    const language = doc ? languageOf(doc) : null;
+    if (!doc || !language) return null;
+    const result = await reportFor(doc);
+    const matrix = result?.report.matrices.find((m) => m.index === matrixIndex && m.role === 'state');
+    if (!result || !matrix) return null;
+    return { doc, language, report: result.report, settings: result.settings, matrix };
+  }
+
+  /** Request errors we raise on purpose reach the client; anything else is logged and becomes null. */
+  function passingErrors<P, R>(name: string, handler: (params: P) => Promise<R>): (params: P) => Promise<R | null> {
+    return async (params: P) => {
+      try {
+        return await handler(params);
+      } catch (err) {
+        if (err instanceof ResponseError) throw err;
+        log(`${name} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
+        return null;
+      }
+    };
+  }
+
+  connection.onRequest(
+    DiscretizeRequestMethod,
+    passingErrors('discretize', async (params: DiscretizeRequestParams): Promise<WorkspaceEdit | null> => {
+      const period = params?.period;
+      if (typeof period !== 'number' || !Number.isFinite(period) || period <= 0) {
+        throw new ResponseError(ErrorCodes.InvalidParams, `The sample period must be a positive number of seconds (got ${JSON.stringify(period)}).`);
+      }
+      const target = await stateMatrixOf(params.uri, params.matrixIndex);
+      if (!target) return null;
+      const method = methodOf(params.method, target.settings);
+      const insert = discreteInsertEdit(target.report, target.matrix, target.language, target.doc.getText(), { period, method, precision: target.settings.codePrecision });
+      if (!('edit' in insert)) throw new ResponseError(ErrorCodes.InvalidParams, insert.error);
+      return toWorkspaceEdit(target.doc, [insert.edit]);
+    }),
+  );
+
+  connection.onRequest(
+    CCodeRequestMethod,
+    passingErrors('cCode', async (params: CCodeRequestParams): Promise<CCodeRequestResult> => {
+      const target = await stateMatrixOf(params?.uri, params?.matrixIndex);
+      if (!target) return { text: null, error: 'No state matrix with that index in this document.' };
+      const period = params.period ?? target.matrix.period;
+      if (period === null || period === undefined) return { text: null, error: 'No sample period: give one (pragma period=…, the model file or the defaultPeriod setting).' };
+      const method = methodOf(params.method, target.settings);
+      const type = params.type === 'float' ? 'float' : 'double';
+      const code = discreteCodeFor(target.report, target.matrix, target.doc.getText(), { period, method, precision: target.settings.codePrecision });
+      if (!code.ok) return { text: null, error: code.error };
+      return { text: cInitializerText(code, target.settings.codePrecision, type), error: null };
     }),
   );
 

@@ -17,6 +17,8 @@ export const SettingKeys = {
   codeLensEnabled: 'codeLens.enabled',
   stateMatrixNames: 'stateMatrixNames',
   discretizeMethod: 'discretizeMethod',
+  /** Significant digits of inexact entries in generated code (2..17; 17 = shortest round-trip). */
+  codePrecision: 'codePrecision',
 } as const;
 
 /** The settings as the client sends them (`workspace/configuration` for section `eigenlens`). */
@@ -29,6 +31,7 @@ export interface EigenlensUserSettings {
   codeLens?: { enabled?: boolean };
   stateMatrixNames?: string[];
   discretizeMethod?: 'zoh' | 'tustin' | 'euler' | 'backward-euler' | 'foh' | null;
+  codePrecision?: number;
 }
 
 /**
@@ -65,6 +68,47 @@ export interface ReportRequestParams {
 export interface ReportRequestResult {
   title: string;
   markdown: string;
+}
+
+export type DiscretizeMethodName = 'zoh' | 'tustin' | 'euler' | 'backward-euler' | 'foh';
+
+/**
+ * Custom request: insert (or update) the discrete-time model of one continuous state matrix
+ * at a period the user chose. The server answers with the WorkspaceEdit to apply (LSP
+ * shape), or null when there is nothing to discretize; a bad period or method is a
+ * ResponseError (InvalidParams) with a readable message.
+ */
+export const DiscretizeRequestMethod = 'eigenlens/discretize';
+
+export interface DiscretizeRequestParams {
+  uri: string;
+  /** MatrixReport.index of a continuous state matrix. */
+  matrixIndex: number;
+  /** Seconds, > 0. */
+  period: number;
+  /** Omitted = the `discretizeMethod` setting, else zero-order hold. */
+  method?: DiscretizeMethodName;
+}
+
+/**
+ * Custom request: the discrete model as C array initializers (`static const double Ad[2][2]
+ * = {{...}, {...}};`), for the clipboard. Period and method default to the matrix's own
+ * period (pragma, model file or setting) and the `discretizeMethod` setting.
+ */
+export const CCodeRequestMethod = 'eigenlens/cCode';
+
+export interface CCodeRequestParams {
+  uri: string;
+  matrixIndex: number;
+  period?: number;
+  method?: DiscretizeMethodName;
+  type?: 'double' | 'float';
+}
+
+/** `text` is the C source, or null with `error` saying why nothing was generated. */
+export interface CCodeRequestResult {
+  text: string | null;
+  error: string | null;
 }
 
 /** Source name on every diagnostic the server publishes. */
