@@ -227,3 +227,14 @@ describe('float spectrum: multiplicities and Jordan blocks', () => {
     expect(numericEigenText(1e-7, -3)).toBe('≈ 1e-07-j3');
   });
 });
+
+describe('regressions', () => {
+  it('the zero matrix has the eigenvalue 0 with multiplicity n (deflation of an all-zero block)', async () => {
+    // Definition: det(λI − 0) = λⁿ. The QR iteration once never deflated when ‖A‖ = 0.
+    const { eigenFloat } = await import('../../server/src/engine/eigenFloat');
+    for (const n of [2, 3, 5]) {
+      const Z = Array.from({ length: n }, () => new Array(n).fill(0));
+      expect(eigenFloat(Z).values).toEqual(Array.from({ length: n }, () => ({ re: 0, im: 0 })));
+    }
+  });
+});

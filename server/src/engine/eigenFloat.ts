@@ -162,7 +162,8 @@ export function hessenbergQrEigenvalues(A: number[][]): Complex[] {
     while (l > 0) {
       s = Math.abs(at(l - 1, l - 1)) + Math.abs(at(l, l));
       if (s === 0) s = norm;
-      if (Math.abs(at(l, l - 1)) < eps * s) break;
+      // "≤", not "<": for an all-zero block (s = norm = 0) an exactly zero subdiagonal must deflate.
+      if (Math.abs(at(l, l - 1)) <= eps * s) break;
       l--;
     }
     if (l === n) {
