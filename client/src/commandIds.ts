@@ -13,18 +13,13 @@ export const ClientCommands = {
   switchDomain: Commands.switchDomain,
   /** Ask for a sample period, then for the discrete model of the matrix at the cursor. */
   discretizeAtPeriod: 'eigenlens.discretizeAtPeriod',
+  /** The discrete model of the matrix at the cursor as C array initializers, to the clipboard. */
+  copyAsCArrays: 'eigenlens.copyAsCArrays',
   /** Stop and start the language server; also resets the crash-restart budget. */
   restartServer: 'eigenlens.restartServer',
 } as const;
 
 /** URI scheme of the read-only report documents. */
 export const REPORT_SCHEME = 'eigenlens-report';
-
-/**
- * Custom request the client sends for "Discretize at Period…". Not yet in the shared
- * protocol: until the server answers it, the command says the server does not offer it.
- * Params: { uri, matrixIndex, period, method }; result: a WorkspaceEdit (LSP) or null.
- */
-export const DiscretizeRequestMethod = 'eigenlens/discretize';
 
 export const DOCUMENT_LANGUAGES = ['python', 'typescript', 'javascript', 'typescriptreact', 'lti'] as const;

@@ -21,18 +21,25 @@ import {
   type WorkspaceEdit as ProtocolWorkspaceEdit,
 } from 'vscode-languageclient/node';
 import {
+  CCodeRequestMethod,
   Commands,
+  DiscretizeRequestMethod,
   ReportRequestMethod,
   SETTINGS_SECTION,
+  type CCodeRequestParams,
+  type CCodeRequestResult,
+  type DiscretizeRequestParams,
   type ReportRequestParams,
   type ReportRequestResult,
 } from '../../server/src/shared/protocol';
-import { ClientCommands, DiscretizeRequestMethod, DOCUMENT_LANGUAGES, REPORT_SCHEME } from './commandIds';
+import { ClientCommands, DOCUMENT_LANGUAGES, REPORT_SCHEME } from './commandIds';
 import { RestartBudget } from './restartPolicy';
 import { parsePeriod } from './period';
 
 /** JSON-RPC "method not found": the server does not offer a request (yet). */
 const METHOD_NOT_FOUND = -32601;
+/** JSON-RPC "invalid params": the server refused the period or method, with a readable reason. */
+const INVALID_PARAMS = -32602;
 
 let client: LanguageClient | undefined;
 let output: vscode.LogOutputChannel | undefined;
@@ -55,6 +62,7 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
     ),
     vscode.commands.registerCommand(ClientCommands.switchDomain, () => guarded('Switch Continuous/Discrete', switchDomain)),
     vscode.commands.registerCommand(ClientCommands.discretizeAtPeriod, () => guarded('Discretize at Period', discretize)),
+    vscode.commands.registerCommand(ClientCommands.copyAsCArrays, () => guarded('Copy Discrete Model as C Arrays', copyAsCArrays)),
     vscode.commands.registerCommand(ClientCommands.restartServer, () => guarded('Restart Server', restartServer)),
   );
 
@@ -193,14 +201,10 @@ async function discretize(): Promise<void> {
   if (answer === undefined) return;
   const parsed = parsePeriod(answer);
   if (!parsed.ok) return;
-  const method = config.get<string>('discretizeMethod') ?? 'zoh';
+  // No method sent: the server applies the resource's `discretizeMethod` setting itself.
+  const params: DiscretizeRequestParams = { uri: found.uri, matrixIndex: found.matrixIndex, period: parsed.period };
   try {
-    const result = await client.sendRequest<ProtocolWorkspaceEdit | null>(DiscretizeRequestMethod, {
-      uri: found.uri,
-      matrixIndex: found.matrixIndex,
-      period: parsed.period,
-      method,
-    });
+    const result = await client.sendRequest<ProtocolWorkspaceEdit | null>(DiscretizeRequestMethod, params);
     if (!result) {
       void vscode.window.showInformationMessage('eigenlens: the server found nothing to discretize for this matrix.');
       return;
@@ -208,13 +212,45 @@ async function discretize(): Promise<void> {
     const edit = await client.protocol2CodeConverter.asWorkspaceEdit(result);
     await vscode.workspace.applyEdit(edit);
   } catch (err) {
-    if (err instanceof ResponseError && err.code === METHOD_NOT_FOUND) {
-      log(`The server does not answer ${DiscretizeRequestMethod} yet.`);
-      void vscode.window.showInformationMessage('eigenlens: this version of the server cannot discretize at a chosen period yet.');
+    if (!explainRefusal(err, DiscretizeRequestMethod, 'discretize at a chosen period')) throw err;
+  }
+}
+
+async function copyAsCArrays(): Promise<void> {
+  const editor = supportedEditor();
+  if (!editor || !client) return;
+  const found = await matrixAtCursor(editor);
+  if (!found) {
+    void vscode.window.showInformationMessage('eigenlens: no state matrix at or above the cursor.');
+    return;
+  }
+  const params: CCodeRequestParams = { uri: found.uri, matrixIndex: found.matrixIndex };
+  try {
+    const result = await client.sendRequest<CCodeRequestResult>(CCodeRequestMethod, params);
+    if (result.text === null) {
+      void vscode.window.showInformationMessage(`eigenlens: no C arrays: ${result.error ?? 'the server gave no reason'}`);
       return;
     }
-    throw err;
+    await vscode.env.clipboard.writeText(result.text);
+    vscode.window.setStatusBarMessage('eigenlens: discrete model copied as C arrays', 3000);
+  } catch (err) {
+    if (!explainRefusal(err, CCodeRequestMethod, 'write C arrays')) throw err;
   }
+}
+
+/** A server that lacks a request, or refuses its parameters, gets a message instead of an error. */
+function explainRefusal(err: unknown, method: string, what: string): boolean {
+  if (!(err instanceof ResponseError)) return false;
+  if (err.code === METHOD_NOT_FOUND) {
+    log(`The server does not answer ${method}.`);
+    void vscode.window.showInformationMessage(`eigenlens: this version of the server cannot ${what} yet.`);
+    return true;
+  }
+  if (err.code === INVALID_PARAMS) {
+    void vscode.window.showWarningMessage(`eigenlens: ${err.message}`);
+    return true;
+  }
+  return false;
 }
 
 // ---------------------------------------------------------------------------------------
