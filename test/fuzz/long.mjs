@@ -44,7 +44,7 @@ for (let i = 0; i < totalCases; i++) {
     if (failure.known) counts[target].known++;
     if (failures.length < 50) failures.push({ case: i, ...failure, input: String(failure.input).slice(0, 4000) });
   }
-  if ((i + 1) % 10_000 === 0) console.log(`  ${i + 1} cases, ${((performance.now() - started) / 1000).toFixed(1)} s, failures ${failures.length}`);
+  if ((i + 1) % 10_000 === 0) console.log(`  ${i + 1} cases, ${((performance.now() - started) / 1000).toFixed(1)} s, failures ${counts.source.failed + counts.engine.failed} (known ${counts.source.known + counts.engine.known})`);
 }
 const wall = (performance.now() - started) / 1000;
 console.log(`fuzz seed ${seed}: ${totalCases} cases in ${wall.toFixed(1)} s`);
