@@ -158,7 +158,7 @@ export function discreteCodeFor(report: DocumentReport, matrix: MatrixReport, do
   if (all.some((m) => m.some((row) => row.some((x) => !Number.isFinite(x))))) {
     return { ok: false, error: `The ${METHOD_LABEL[options.method]} model at T = ${options.period} s has entries that overflow a double.` };
   }
-  const names = discreteNames(report, matrix, B, C, D, documentText);
+  const names = discreteNames(matrix, documentText);
   const matrices: GeneratedMatrix[] = [{ letter: 'A', name: names.A, values: result.Ad, exact: result.exact?.Ad ?? null }];
   if (result.Bd) matrices.push({ letter: 'B', name: names.B, values: result.Bd, exact: result.exact?.Bd ?? null });
   if (result.Cd) matrices.push({ letter: 'C', name: names.C, values: result.Cd, exact: result.exact?.Cd ?? null });
@@ -195,14 +195,12 @@ function textOutsideBlock(documentText: string, matrix: MatrixReport): string {
   return text;
 }
 
-function discreteNames(report: DocumentReport, matrix: MatrixReport, B: MatrixReport | null, C: MatrixReport | null, D: MatrixReport | null, documentText: string) {
-  void B;
-  void C;
-  void D;
+function discreteNames(matrix: MatrixReport, documentText: string) {
   const base = matrix.name ?? 'A';
   const rest = /^[A-Za-z]$/.test(base) ? '' : base.slice(1).replace(/^_/, '').replace(/[^A-Za-z0-9_]/g, '_');
   const outside = textOutsideBlock(documentText, matrix);
-  const used = (name: string) => new RegExp(`(^|[^A-Za-z0-9_])${name}($|[^A-Za-z0-9_])`).test(outside) || report.matrices.some((m) => m.name === name);
+  // Every name a matrix has appears in the text, so the text outside our own blocks is the whole check.
+  const used = (name: string) => new RegExp(`(^|[^A-Za-z0-9_])${name}($|[^A-Za-z0-9_])`).test(outside);
   const make = (letter: string, k: number) => (rest === '' ? (k === 1 ? `${letter}d` : `${letter}_d${k}`) : `${letter}_${rest}_d${k === 1 ? '' : k}`);
   const stateLetter = /^[AF]/.test(base) ? base[0] : 'A';
   for (let k = 1; ; k++) {
@@ -229,8 +227,10 @@ export function cNumber(x: number, precision: number, type: 'double' | 'float'):
   return type === 'float' ? `${s}f` : s;
 }
 
+/** What the markers name: the matrix, plus its system in model files (every system there has an A). */
 function sourceKey(matrix: MatrixReport): string {
-  return matrix.name ?? `matrix at line ${matrix.line}`;
+  const name = matrix.name ?? `matrix at line ${matrix.line}`;
+  return matrix.modelId !== null && matrix.nameSpan !== null && matrix.modelId !== name && /^[AF]$/.test(name) ? `${name} of ${matrix.modelId}` : name;
 }
 
 type BlockKind = 'discrete model' | 'C initializers';
@@ -270,7 +270,9 @@ function headerLines(code: DiscreteCode, target: string): string[] {
     target === 'c'
       ? 'Entries are decimal literals that round-trip the computed values at the chosen precision.'
       : code.result.exact
-        ? 'Fractions are exact (the method stayed in the rationals); Python and JavaScript read them as the nearest double.'
+        ? target === 'lti'
+          ? 'Fractions are exact (the method stayed in the rationals) and are read back exactly.'
+          : 'Fractions are exact (the method stayed in the rationals); Python and JavaScript read them as the nearest double.'
         : 'Entries are floating point, written with enough digits to round-trip a double unless a lower precision is set.',
   );
   for (const caveat of code.caveats) lines.push(`Caveat: ${asciiText(caveat)}`);

@@ -23,7 +23,14 @@ function nameAt(report: DocumentReport, index: number | null, fallback: string):
 
 /** "λ = −1 (×2), λ = 0" for a list of mode eigenvalues. */
 export function modeListText(modes: ModeEigenvalue[]): string {
-  return modes.map((m) => `λ = ${prettyRootText(m.text)}${m.multiplicity > 1 ? ` (×${m.multiplicity})` : ''}`).join(', ');
+  return modes
+    .map((m) => {
+      const text = prettyRootText(m.text).trim();
+      // Numerical roots come as "≈ −1": read "λ ≈ −1", not "λ = ≈ −1".
+      const head = text.startsWith('≈') ? `λ ${text}` : `λ = ${text}`;
+      return `${head}${m.multiplicity > 1 ? ` (×${m.multiplicity})` : ''}`;
+    })
+    .join(', ');
 }
 
 /** "controllable (rank 2 of 2, exact)" or "**not controllable** (rank 1 of 2): cannot move λ = −1". */
