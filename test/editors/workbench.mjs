@@ -312,7 +312,10 @@ async function lookAtFile(page, file, outDir, workspace) {
     if (hover.scrolls) {
       // What a user finds after scrolling the hover (the plot usually sits below the fold).
       await page.mouse.move(hover.box.x + hover.box.width / 2, hover.box.y + hover.box.height / 2, { steps: 3 });
-      await page.mouse.wheel(0, 2000);
+      for (let step = 0; step < 12; step++) {
+        await page.mouse.wheel(0, 250); // small steps: the hover scrolls by a bounded amount per event
+        await wait(80);
+      }
       await wait(400);
       await page.screenshot({ path: join(outDir, `${tag}-hover-scrolled.png`), clip });
     }
