@@ -10,7 +10,11 @@ import type { Finding, MatrixReport } from './report';
 import type { AnalysisSettings } from './settings';
 import { eigenvalueLabel, formatNumber, formatSeconds } from './numberText';
 
+/** Cancellation factor above which a closed form loses more than 6 of 16 digits (our choice). */
+const CANCELLATION_LIMIT = 1e6;
+
 export const FINDING_CODES = [
+  'closed-form-cancellation',
   'unstable-mode',
   'marginally-stable',
   'defective-matrix',
@@ -100,6 +104,17 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
         message: `The closed-form transition matrix of ${label} failed its numeric check.${check} Do not use its numbers.`,
       });
     }
+  }
+
+  // Exact coefficients can still be useless in floating point: when terms of size X cancel to
+  // a sum of size 1, evaluating the printed formula loses log10(X) digits.
+  if (cf && cf.check.passed && spec.nearRepeated.length === 0 && cf.conditioning > CANCELLATION_LIMIT) {
+    out.push({
+      span,
+      severity: 'warning',
+      code: 'closed-form-cancellation',
+      message: `Evaluating the closed form of ${label} in floating point loses about ${Math.round(Math.log10(cf.conditioning))} of its 16 digits: its terms are up to ${formatNumber(cf.conditioning, 2)} times larger than their sum (cancellation factor). The coefficients are ${cf.exactCoefficients ? 'exact' : 'numeric'}; for numbers, use the numeric exponential.`,
+    });
   }
 
   for (const m of core.modes) {
