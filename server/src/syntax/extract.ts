@@ -2,6 +2,7 @@
  * Entry point of the syntax layer: `initParsers` once, then `extract` per document.
  * `extract` is synchronous and never throws: any internal failure becomes a Problem.
  */
+import { ParseCache } from './incrementalParse';
 import { extractLti } from './lti';
 import { extractPython } from './python';
 import { compileNamePatterns } from './roles';
@@ -12,6 +13,25 @@ import type { ExtractedFile, SourceLanguage } from './types';
 export interface ExtractOptions {
   /** Extra state-matrix names, as regular expressions matched against the whole name. */
   stateMatrixNames?: string[];
+  /**
+   * Reuse earlier work (default true): the syntax tree of a recent version of the text is
+   * re-parsed incrementally, and unchanged matrix literals are not rebuilt. False parses from
+   * scratch and neither reads nor fills the caches (the results are the same either way).
+   */
+  reuse?: boolean;
+}
+
+/** Recent syntax trees for incremental re-parsing (one cache for all documents; see incrementalParse.ts). */
+const parseCache = new ParseCache();
+
+/** Drops every cached tree and memoised literal (frees their memory; results do not change). */
+export function clearExtractCaches(): void {
+  parseCache.clear();
+}
+
+/** How many parses were served unchanged, incrementally or from scratch since start. */
+export function extractCacheStats(): { parses: { unchanged: number; incremental: number; full: number } } {
+  return { parses: { ...parseCache.stats } };
 }
 
 /** Loads the parsers (idempotent). `wasmDir` overrides where the .wasm files are looked for. */
@@ -39,7 +59,9 @@ export function extract(text: string, language: SourceLanguage, opts?: ExtractOp
       return file;
     }
     const parser = language === 'python' ? parsers.python : parsers.typescript;
-    const tree = parser.parse(text);
+    const reuse = opts?.reuse !== false;
+    // A cached tree belongs to the cache (deleted on eviction); a one-off tree is deleted here.
+    const tree = reuse ? parseCache.parse(parser, language, text) : parser.parse(text);
     if (!tree) {
       const file = emptyFile(language);
       file.problems.push({ span: { start: 0, end: 0 }, severity: 'error', code: 'parse-failed', message: 'The file could not be parsed.' });
@@ -51,7 +73,7 @@ export function extract(text: string, language: SourceLanguage, opts?: ExtractOp
       file.language = language;
       return file;
     } finally {
-      tree.delete();
+      if (!reuse) tree.delete();
     }
   } catch (err) {
     const file = emptyFile(language);

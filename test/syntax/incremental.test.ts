@@ -1,0 +1,125 @@
+/**
+ * Incremental re-parsing and literal reuse give the same extraction as a parse from scratch.
+ *
+ * Reference: the from-scratch path (`extract(text, lang, { reuse: false })`: tree-sitter's own
+ * full parse, every literal rebuilt). tree-sitter documents that a tree re-parsed after
+ * `Tree.edit` describes the new text exactly as a fresh parse would (M. Brunsfeld, tree-sitter
+ * documentation, "Using Parsers — Editing"); these properties check that our edit descriptions
+ * and caches keep that promise on random edit sequences (fast-check, seeded) of the invented
+ * demo files and of generated invented files (test/bench/generate.mjs).
+ */
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import fc from 'fast-check';
+import { describe, expect, it } from 'vitest';
+import { clearExtractCaches, extract, extractCacheStats, initParsers } from '../../server/src/syntax/extract';
+import { singleEdit } from '../../server/src/syntax/incrementalParse';
+import type { SourceLanguage } from '../../server/src/syntax/types';
+// @ts-expect-error plain JavaScript module without type declarations
+import { generateSourceFile } from '../bench/generate.mjs';
+
+await initParsers();
+
+const demo = (name: string) => readFileSync(join(__dirname, '..', 'demo', name), 'utf8');
+
+/** Pieces an edit inserts: entry syntax, brackets, comments, pragmas, strings, non-BMP and hidden characters. */
+const INSERTS = [
+  '', '7', '0.5', '-', ',', ', 3', '[', ']', '(', ')', '[1, 2]', ' ', '\n', '\n    ', '#', '//', '/*', '*/', '"', "'", 'x',
+  'k', '=', ' = ', '**2', '/0', 'pi', 'np.array(', 'A = [[1, 2], [3, 4]]\n', 'const A = [[1, 0], [0, 1]];\n',
+  '# eigenlens: discrete period=0.1\n', '// eigenlens: ignore\n', 'k = 4\n', 'const k = 4;\n', '\u{1F600}', '\u200B', 'def f():\n',
+  '{', '}', ':', ';', '\\', '\t',
+];
+
+const editArb = fc.record({ at: fc.double({ min: 0, max: 1, noNaN: true }), remove: fc.nat(12), insert: fc.constantFrom(...INSERTS) });
+
+function applyEdit(text: string, e: { at: number; remove: number; insert: string }): string {
+  const at = Math.min(text.length, Math.floor(e.at * text.length));
+  return text.slice(0, at) + e.insert + text.slice(Math.min(text.length, at + e.remove));
+}
+
+function checkSequence(seedText: string, lang: SourceLanguage, edits: { at: number; remove: number; insert: string }[]) {
+  let text = seedText;
+  expect(extract(text, lang)).toEqual(extract(text, lang, { reuse: false }));
+  for (const e of edits) {
+    text = applyEdit(text, e);
+    const reused = extract(text, lang);
+    const fresh = extract(text, lang, { reuse: false });
+    expect(reused).toEqual(fresh);
+  }
+}
+
+describe('singleEdit: one range replacement that rebuilds the new text', () => {
+  // A long shared base makes the chunked comparison cross chunk boundaries.
+  const base = 'A = [[1, 2], [3, 4]]\n'.repeat(300) + '\u{1F600} mid \u{1F601}\n' + 'B = [[5], [6]]\n'.repeat(200);
+  it('old prefix + new middle + old suffix = new text, and no surrogate pair is split', () => {
+    fc.assert(
+      fc.property(fc.array(editArb, { minLength: 1, maxLength: 3 }), fc.boolean(), (edits, short) => {
+        const oldText = short ? base.slice(0, 40) : base;
+        let newText = oldText;
+        for (const e of edits) newText = applyEdit(newText, e);
+        const d = singleEdit(oldText, newText);
+        expect(oldText.slice(0, d.startIndex) + newText.slice(d.startIndex, d.newEndIndex) + oldText.slice(d.oldEndIndex)).toBe(newText);
+        expect(d.startIndex).toBeLessThanOrEqual(Math.min(d.oldEndIndex, d.newEndIndex));
+        for (const [t, i] of [[oldText, d.startIndex], [oldText, d.oldEndIndex], [newText, d.newEndIndex]] as const) {
+          const before = t.charCodeAt(i - 1);
+          const after = t.charCodeAt(i);
+          expect(before >= 0xd800 && before <= 0xdbff && after >= 0xdc00 && after <= 0xdfff, `split pair at ${i}`).toBe(false);
+        }
+      }),
+      { seed: 11, numRuns: 300 },
+    );
+  });
+  it('equal texts give an empty edit', () => {
+    expect(singleEdit(base, base)).toEqual({ startIndex: base.length, oldEndIndex: base.length, newEndIndex: base.length });
+  });
+});
+
+describe('incremental extraction equals extraction from scratch', () => {
+  const cases: Array<[string, SourceLanguage, () => string]> = [
+    ['demo kiln_zones.py', 'python', () => demo('kiln_zones.py')],
+    ['demo tank_cascade.py', 'python', () => demo('tank_cascade.py')],
+    ['demo motor_speed.py', 'python', () => demo('motor_speed.py')],
+    ['demo drone_altitude.ts', 'typescript', () => demo('drone_altitude.ts')],
+    ['demo gimbal_resonance.ts', 'typescript', () => demo('gimbal_resonance.ts')],
+    ['demo gimbal_resonance.ts as javascript', 'javascript', () => demo('gimbal_resonance.ts')],
+    ['generated python', 'python', () => generateSourceFile(3, 'python', { lines: 400, count: 30 }).text],
+    ['generated typescript', 'typescript', () => generateSourceFile(4, 'typescript', { lines: 400, count: 30 }).text],
+  ];
+  for (const [label, lang, load] of cases) {
+    it(label, () => {
+      const seedText = load();
+      const before = extractCacheStats().parses.incremental;
+      fc.assert(
+        fc.property(fc.array(editArb, { minLength: 1, maxLength: 8 }), (edits) => checkSequence(seedText, lang, edits)),
+        { seed: 20250101 + label.length, numRuns: 25 },
+      );
+      // The property is about the reuse path: make sure it was taken.
+      expect(extractCacheStats().parses.incremental).toBeGreaterThan(before);
+    });
+  }
+
+  it('a one-digit edit inside a matrix of the generated file changes that entry only', () => {
+    const { text, matrices } = generateSourceFile(5, 'python', { lines: 400, count: 30 });
+    const first = extract(text, 'python');
+    const target = matrices[10].entries[0][0];
+    const lineStart = text.split('\n').slice(0, target.line).join('\n').length + 1;
+    const at = lineStart + target.character + target.text.search(/\d/);
+    const edited = text.slice(0, at) + (text[at] === '7' ? '3' : '7') + text.slice(at + 1);
+    const second = extract(edited, 'python');
+    expect(second).toEqual(extract(edited, 'python', { reuse: false }));
+    const changed = second.matrices.filter((m, i) => JSON.stringify(m.rows.map((r) => r.map((e) => e.text))) !== JSON.stringify(first.matrices[i].rows.map((r) => r.map((e) => e.text))));
+    expect(changed.map((m) => m.name)).toEqual([`A11`]);
+  });
+
+  it('many documents in turn (more than the cache keeps) and cleared caches still extract correctly', () => {
+    const texts = Array.from({ length: 12 }, (_, k) => generateSourceFile(100 + k, 'python', { lines: 120, count: 8 }).text);
+    for (let round = 0; round < 2; round++) {
+      for (const t of texts) {
+        const edited = t.replace('[', '[ ');
+        expect(extract(edited, 'python')).toEqual(extract(edited, 'python', { reuse: false }));
+      }
+    }
+    clearExtractCaches();
+    expect(extract(texts[0], 'python')).toEqual(extract(texts[0], 'python', { reuse: false }));
+  });
+});
