@@ -104,8 +104,9 @@ function rankOneUpdate<T>(A: T[][], B: T[][], C: T[][], i: number, j: number, mu
   return A.map((row, r) => row.map((a, k) => sub(a, mul(B[r][j], C[i][k]))));
 }
 
+/** Parenthesize sums, and fractions that would otherwise read as a chain of divisions. */
 function wrapped(text: string): string {
-  return /[+\-]/.test(text.replace(/^-/, '')) ? `(${text})` : text;
+  return /[+\-/ ]/.test(text.replace(/^-/, '')) ? `(${text})` : text;
 }
 
 function ratioText(num: string, den: string): string {

@@ -81,3 +81,8 @@ export function escapeTableCell(text: string): string {
 export function transitionTitle(name: string, variable: 't' | 'k'): string {
   return variable === 't' ? `Φ(t) = e^(${name}·t)` : `Φ(k) = ${name}^k`;
 }
+
+/** "λ = -1+j√3" for exact values, "λ ≈ -4.369 ± j8.7139" for numeric ones (never "λ = ≈ …"). */
+export function lambdaIs(text: string): string {
+  return text.startsWith('≈') ? `λ ${text}` : `λ = ${text}`;
+}

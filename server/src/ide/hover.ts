@@ -14,6 +14,7 @@ import { SAFETY_CAUTION_SHORT } from '../analysis/caution';
 import { entryText, escapeTableCell, eigenvalueText, eigenvalueWithDecimal, formatNumber, transitionTitle } from './format';
 import { behaviourText, multiplicityText, verdictHeadline } from './summary';
 import { modalResponseSvg, svgDataUri } from './plot';
+import { lambdaIs } from './format';
 import { modelLines, partnerModelLine } from './modelText';
 
 export interface HoverResult {
@@ -95,12 +96,18 @@ function entryMarkdown(matrix: MatrixReport, row: number, col: number, precision
   return `${where} ≈ ${formatNumber(value.value, precision)} (floating point: the entry uses a function or constant with no exact value)`;
 }
 
+/** Φ as a table while it fits the hover's width, else one entry per line (wraps instead of scrolling sideways). */
+const TABLE_MAX_CELL = 46;
+
 function stateMarkdown(matrix: MatrixReport, precision: number, model: string[]): string {
   const out: string[] = [];
   const exactness = matrix.exact && matrix.spectrum?.exact ? 'exact arithmetic' : 'floating point';
   out.push(`**${label(matrix)}** · ${matrix.rows}×${matrix.cols} state matrix · ${domainWords(matrix, precision)} · ${exactness}`);
   out.push('');
   out.push(verdictHeadline(matrix));
+  // The caution sits right under the verdict: hovers scroll, and a caution below the fold is none.
+  out.push('');
+  out.push(`_${SAFETY_CAUTION_SHORT}_`);
   const spectrum = matrix.spectrum;
   if (spectrum) {
     out.push('');
@@ -108,7 +115,7 @@ function stateMarkdown(matrix: MatrixReport, precision: number, model: string[])
       const ev = spectrum.eigenvalues[mode.eigenvalueIndex];
       if (!ev) continue;
       const pair = ev.im !== 0;
-      out.push(`- λ = ${eigenvalueWithDecimal(ev, precision, true)}${pair ? ' (conjugate pair)' : ''}, ${multiplicityText(ev)}: ${behaviourText(matrix, mode, precision)}.`);
+      out.push(`- ${lambdaIs(eigenvalueWithDecimal(ev, precision, true))}${pair ? ' (conjugate pair)' : ''}, ${multiplicityText(ev)}: ${behaviourText(matrix, mode, precision)}.`);
     }
     const notes: string[] = [];
     if (spectrum.defective) {
@@ -118,7 +125,7 @@ function stateMarkdown(matrix: MatrixReport, precision: number, model: string[])
     for (const near of spectrum.nearRepeated) {
       const a = spectrum.eigenvalues[near.a];
       const b = spectrum.eigenvalues[near.b];
-      const pairText = a && b ? `λ = ${eigenvalueText(a, precision, false)} and λ = ${eigenvalueText(b, precision, false)}` : 'Two eigenvalues';
+      const pairText = a && b ? `${lambdaIs(eigenvalueText(a, precision, false))} and ${lambdaIs(eigenvalueText(b, precision, false))}` : 'Two eigenvalues';
       notes.push(`${pairText} are **nearly repeated** (relative separation ${formatNumber(near.separation, 2)}): a closed form built from them is ill-conditioned.`);
     }
     if (!spectrum.exact) notes.push(`Multiplicities are numerical${spectrum.clusterTolerance !== null ? ` (eigenvalues within ${formatNumber(spectrum.clusterTolerance, 2)} counted as one)` : ''}.`);
@@ -126,6 +133,13 @@ function stateMarkdown(matrix: MatrixReport, precision: number, model: string[])
     if (notes.length) {
       out.push('');
       for (const note of notes) out.push(`> ${note}`);
+    }
+    if (matrix.modes.length) {
+      const svg = modalResponseSvg(spectrum, matrix.modes, matrix.domain, matrix.period, precision);
+      if (svg) {
+        out.push('');
+        out.push(`![Modal responses, each scaled to peak 1](${svgDataUri(svg)})`);
+      }
     }
   }
   const transition = matrix.transition;
@@ -135,11 +149,14 @@ function stateMarkdown(matrix: MatrixReport, precision: number, model: string[])
     out.push(`${transitionTitle(name, transition.variable)}${transition.exactCoefficients ? ' (exact coefficients)' : ''}:`);
     out.push('');
     const n = transition.entries[0].length;
-    out.push(`| | ${Array.from({ length: n }, (_, c) => `col ${c + 1}`).join(' | ')} |`);
-    out.push(`|---|${Array.from({ length: n }, () => '---').join('|')}|`);
-    transition.entries.forEach((row, r) => {
-      out.push(`| **row ${r + 1}** | ${row.map((terms) => escapeTableCell(entryText(terms, transition.variable, precision))).join(' | ')} |`);
-    });
+    const cells = transition.entries.map((row) => row.map((terms) => entryText(terms, transition.variable, precision)));
+    if (n <= 4 && cells.every((row) => row.every((c) => c.length <= TABLE_MAX_CELL))) {
+      out.push(`| | ${Array.from({ length: n }, (_, c) => `col ${c + 1}`).join(' | ')} |`);
+      out.push(`|---|${Array.from({ length: n }, () => '---').join('|')}|`);
+      cells.forEach((row, r) => out.push(`| **row ${r + 1}** | ${row.map(escapeTableCell).join(' | ')} |`));
+    } else {
+      cells.forEach((row, r) => row.forEach((c, k) => out.push(`- Φ[${r + 1},${k + 1}] = ${escapeTableCell(c)}`)));
+    }
     out.push('');
     const { check } = transition;
     const at = check.samples.map((s) => formatNumber(s, 3)).join(', ');
@@ -158,15 +175,6 @@ function stateMarkdown(matrix: MatrixReport, precision: number, model: string[])
     out.push('');
     for (const reason of matrix.skipped) out.push(`_Not computed:_ ${reason}`);
   }
-  if (spectrum && matrix.modes.length) {
-    const svg = modalResponseSvg(spectrum, matrix.modes, matrix.domain, matrix.period, precision);
-    if (svg) {
-      out.push('');
-      out.push(`![Modal responses, each scaled to peak 1](${svgDataUri(svg)})`);
-    }
-  }
-  out.push('');
-  out.push(`_${SAFETY_CAUTION_SHORT}_`);
   return out.join('\n');
 }
 

@@ -10,7 +10,7 @@ import type { DocumentReport, MatrixReport, ModelReport } from '../analysis/repo
 import type { ModeEigenvalue, ReachabilityResult } from '../engine/controllability';
 import type { QuantizationSuccess } from '../engine/quantize';
 import type { TransferEntry } from '../engine/transferFunction';
-import { formatDuration, formatNumber, prettyRootText } from './format';
+import { formatDuration, formatNumber, prettyRootText, lambdaIs } from './format';
 
 export function modelOfMatrix(report: DocumentReport, matrix: MatrixReport): ModelReport | null {
   return report.models.find((m) => m.id === matrix.modelId) ?? null;
@@ -27,7 +27,7 @@ export function modeListText(modes: ModeEigenvalue[]): string {
     .map((m) => {
       const text = prettyRootText(m.text).trim();
       // Numerical roots come as "≈ −1": read "λ ≈ −1", not "λ = ≈ −1".
-      const head = text.startsWith('≈') ? `λ ${text}` : `λ = ${text}`;
+      const head = lambdaIs(text);
       return `${head}${m.multiplicity > 1 ? ` (×${m.multiplicity})` : ''}`;
     })
     .join(', ');

@@ -8,7 +8,7 @@
  * Invariant: output is a self-contained SVG no larger than PLOT_WIDTH × PLOT_HEIGHT px.
  */
 import type { Domain, Mode, Spectrum } from '../engine/types';
-import { eigenvalueText, formatDuration } from './format';
+import { eigenvalueText, formatDuration, lambdaIs } from './format';
 
 export const PLOT_WIDTH = 640;
 export const PLOT_HEIGHT = 180;
@@ -88,7 +88,7 @@ export function modalResponseSvg(spectrum: Spectrum, modes: Mode[], domain: Doma
   const perSample = domain === 'discrete' && shown.every((m) => m.s === null);
   const horizon = plotHorizon(shown, domain);
   const curves: Curve[] = shown.map((mode) => ({
-    label: `λ = ${eigenvalueText(spectrum.eigenvalues[mode.eigenvalueIndex], 3, true)}`,
+    label: lambdaIs(eigenvalueText(spectrum.eigenvalues[mode.eigenvalueIndex], 3, true)),
     ys: normalise(curveFor(mode, spectrum, domain, horizon, perSample, period)),
   }));
   const left = 36;

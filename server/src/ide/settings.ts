@@ -51,6 +51,24 @@ export function settingsFromUser(raw: unknown): IdeSettings {
   else if ((DISCRETIZE_METHODS as readonly unknown[]).includes(user.discretizeMethod)) {
     analysis.discretizeMethod = user.discretizeMethod as AnalysisSettings['discretizeMethod'];
   }
+  // Bounds (every request stays bounded: the caps can be lowered, never raised past the design's).
+  const bound = (key: string, lo: number, hi: number): number | undefined => integerIn(user[key], lo, hi);
+  analysis.exactMaxN = bound('exactMaxN', 1, 12) ?? analysis.exactMaxN;
+  analysis.numericMaxN = bound('numericMaxN', 1, 200) ?? analysis.numericMaxN;
+  analysis.exactMaxDigits = bound('exactMaxDigits', 10, 4000) ?? analysis.exactMaxDigits;
+  analysis.maxFileChars = bound('maxFileChars', 1000, 50_000_000) ?? analysis.maxFileChars;
+  analysis.timeBudgetMs = bound('timeBudgetMs', 50, 60_000) ?? analysis.timeBudgetMs;
+  analysis.periodMinSamplesPerOscillation = bound('periodMinSamplesPerOscillation', 2, 1000) ?? analysis.periodMinSamplesPerOscillation;
+  const fraction = (key: string, lo: number, hi: number): number | undefined => {
+    const x = user[key];
+    return typeof x === 'number' && Number.isFinite(x) && x > lo && x <= hi ? x : undefined;
+  };
+  analysis.nearRepeatThreshold = fraction('nearRepeatThreshold', 0, 0.1) ?? analysis.nearRepeatThreshold;
+  analysis.quantizationThreshold = fraction('quantizationThreshold', 0, 1) ?? analysis.quantizationThreshold;
+  analysis.periodTimeConstantDivisor = fraction('periodTimeConstantDivisor', 0, 1000) ?? analysis.periodTimeConstantDivisor;
+  const fixed = typeof user.fixedPoint === 'string' ? /^Q(\d{1,2})\.(\d{1,2})$/.exec(user.fixedPoint.trim()) : null;
+  if (fixed && Number(fixed[1]) + Number(fixed[2]) <= 63) analysis.fixedPoint = { integerBits: Number(fixed[1]), fractionalBits: Number(fixed[2]) };
+
   // Both `{ codeLens: { enabled } }` and a flat `"codeLens.enabled"` key are accepted:
   // editors differ in whether they expand dotted keys.
   let codeLensEnabled = true;

@@ -6,7 +6,7 @@
  */
 import type { Eigenvalue, Mode } from '../engine/types';
 import type { MatrixReport } from '../analysis/report';
-import { eigenvalueDecimal, eigenvalueText, formatDuration, formatNumber, needsDecimal } from './format';
+import { eigenvalueDecimal, eigenvalueText, formatDuration, formatNumber, needsDecimal, lambdaIs } from './format';
 
 export const GROWING: ReadonlySet<Mode['behaviour']> = new Set(['grows', 'growing-oscillation', 'polynomial-growth']);
 
@@ -60,7 +60,7 @@ function timeOrSteps(report: MatrixReport, value: number, precision: number): st
 /** Lens-sized eigenvalue: long surd texts become a 3-digit decimal. */
 function shortLambda(ev: Eigenvalue, precision: number): string {
   const exact = eigenvalueText(ev, precision, true);
-  return needsDecimal(ev) && exact.length > 8 ? `λ ≈ ${eigenvalueDecimal(ev, 3, true)}` : `λ = ${exact}`;
+  return needsDecimal(ev) && exact.length > 8 ? `λ ≈ ${eigenvalueDecimal(ev, 3, true)}` : lambdaIs(exact);
 }
 
 /** The code-lens title: verdict and the dominant mode in a few words. */
