@@ -88,13 +88,15 @@ describe('incremental extraction equals extraction from scratch', () => {
   for (const [label, lang, load] of cases) {
     it(label, () => {
       const seedText = load();
-      const before = extractCacheStats().parses.incremental;
+      const before = extractCacheStats();
       fc.assert(
         fc.property(fc.array(editArb, { minLength: 1, maxLength: 8 }), (edits) => checkSequence(seedText, lang, edits)),
         { seed: 20250101 + label.length, numRuns: 25 },
       );
-      // The property is about the reuse path: make sure it was taken.
-      expect(extractCacheStats().parses.incremental).toBeGreaterThan(before);
+      // The property is about the reuse paths: make sure they were taken.
+      const after = extractCacheStats();
+      expect(after.parses.incremental).toBeGreaterThan(before.parses.incremental);
+      expect(after.literals.hits).toBeGreaterThan(before.literals.hits);
     });
   }
 
@@ -121,5 +123,60 @@ describe('incremental extraction equals extraction from scratch', () => {
     }
     clearExtractCaches();
     expect(extract(texts[0], 'python')).toEqual(extract(texts[0], 'python', { reuse: false }));
+  });
+});
+
+describe('reused matrices follow what they depend on', () => {
+  const same = (text: string, lang: SourceLanguage = 'python') => {
+    const reused = extract(text, lang);
+    expect(reused).toEqual(extract(text, lang, { reuse: false }));
+    return reused;
+  };
+  const value = (text: string, name: string, lang: SourceLanguage = 'python') => {
+    const m = same(text, lang).matrices.find((x) => x.name === name);
+    return m ? m.rows.map((r) => r.map((e) => (e.value === null ? null : e.value.kind === 'exact' ? e.value.value.toString() : e.value.value))) : undefined;
+  };
+  const tail = '\nA = [[k, 1], [0, -k/2]]\nB = [[0], [1]]\n';
+
+  it('a changed constant the literal reads changes its values; an unrelated one does not matter', () => {
+    // Exact arithmetic: 3/2 = 1.5 by the definition of decimal notation.
+    expect(value('k = 2\nj = 1' + tail, 'A')).toEqual([['2', '1'], ['0', '-1']]);
+    expect(value('k = 3\nj = 1' + tail, 'A')).toEqual([['3', '1'], ['0', '-3/2']]);
+    expect(value('k = 3\nj = 5' + tail, 'A')).toEqual([['3', '1'], ['0', '-3/2']]);
+    expect(value('k = 0.5\nj = 5' + tail, 'A')).toEqual([['1/2', '1'], ['0', '-1/4']]);
+  });
+
+  it('a constant removed or made unreadable above the literal turns its entries into errors', () => {
+    same('k = 2' + tail);
+    const file = same('k = "two"' + tail);
+    expect(file.matrices.find((m) => m.name === 'A')?.rows[0][0].value).toBeNull();
+    expect(file.problems.map((p) => p.code)).toContain('unknown-name');
+  });
+
+  it('lines inserted above move every span of a reused matrix and of its problems', () => {
+    const body = 'A = [[1, 2], [3, x]]\n';
+    same(body);
+    const moved = '# invented note\n\n' + body;
+    const file = same(moved);
+    const a = file.matrices[0];
+    expect(a.rows.map((r) => r.map((e) => moved.slice(e.span.start, e.span.end)))).toEqual([['1', '2'], ['3', 'x']]);
+    expect(moved.slice(a.span.start, a.span.end)).toBe('[[1, 2], [3, x]]');
+    expect(file.problems.map((p) => moved.slice(p.span.start, p.span.end))).toEqual(['x']);
+  });
+
+  it('a pragma added or changed above a reused literal applies', () => {
+    const body = 'A = [[0, 1], [-2, -3]]\n';
+    expect(same(body).matrices).toHaveLength(1);
+    expect(same('x = 1\n# eigenlens: ignore\n' + body).matrices).toHaveLength(0);
+    const grouped = same('x = 1\n# eigenlens: model=pump\n' + body);
+    expect(grouped.matrices[0].groupKey).toBe('pump');
+    expect(grouped.matrices[0].pragma?.span.start).toBe('x = 1\n'.length);
+  });
+
+  it('typescript object properties and math.matrix calls', () => {
+    const ts = 'const k = 2;\nconst sys = { A: [[0, 1], [-k, -1]], B: math.matrix([[0], [1]]) };\n';
+    expect(value(ts, 'A', 'typescript')).toEqual([['0', '1'], ['-2', '-1']]);
+    expect(value(ts.replace('k = 2', 'k = 4'), 'A', 'typescript')).toEqual([['0', '1'], ['-4', '-1']]);
+    expect(value('\n' + ts.replace('k = 2', 'k = 4'), 'B', 'typescript')).toEqual([['0'], ['1']]);
   });
 });

@@ -3,6 +3,7 @@
  * `extract` is synchronous and never throws: any internal failure becomes a Problem.
  */
 import { ParseCache } from './incrementalParse';
+import { LiteralMemo } from './literalMemo';
 import { extractLti } from './lti';
 import { extractPython } from './python';
 import { compileNamePatterns } from './roles';
@@ -23,15 +24,21 @@ export interface ExtractOptions {
 
 /** Recent syntax trees for incremental re-parsing (one cache for all documents; see incrementalParse.ts). */
 const parseCache = new ParseCache();
+/** Matrices built by earlier extractions, reused when their literal and the constants it reads are unchanged. */
+const literalMemo = new LiteralMemo();
 
 /** Drops every cached tree and memoised literal (frees their memory; results do not change). */
 export function clearExtractCaches(): void {
   parseCache.clear();
+  literalMemo.clear();
 }
 
 /** How many parses were served unchanged, incrementally or from scratch since start. */
-export function extractCacheStats(): { parses: { unchanged: number; incremental: number; full: number } } {
-  return { parses: { ...parseCache.stats } };
+export function extractCacheStats(): {
+  parses: { unchanged: number; incremental: number; full: number };
+  literals: { hits: number; misses: number; unmemoised: number };
+} {
+  return { parses: { ...parseCache.stats }, literals: { ...literalMemo.stats } };
 }
 
 /** Loads the parsers (idempotent). `wasmDir` overrides where the .wasm files are looked for. */
@@ -68,8 +75,9 @@ export function extract(text: string, language: SourceLanguage, opts?: ExtractOp
       return file;
     }
     try {
-      if (language === 'python') return extractPython(text, tree, patterns);
-      const file = extractTypeScript(text, tree, patterns);
+      const memo = reuse ? literalMemo : null;
+      if (language === 'python') return extractPython(text, tree, patterns, memo);
+      const file = extractTypeScript(text, tree, patterns, memo);
       file.language = language;
       return file;
     } finally {

@@ -13,6 +13,7 @@
 import type { Node, Tree } from 'web-tree-sitter';
 import { buildMatrix, PragmaAttacher, type LiteralNode } from './literal';
 import { evaluateEntry } from './evaluate';
+import type { LiteralMemo } from './literalMemo';
 import { roleFromName } from './roles';
 import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
 
@@ -64,7 +65,8 @@ function literalOf(right: Node): { top: Node; arrayCall: boolean } | null {
   return null;
 }
 
-export function extractPython(text: string, tree: Tree, extraStatePatterns: RegExp[]): ExtractedFile {
+/** `memo`, when given, reuses matrices built by earlier extractions (see literalMemo.ts); the result is the same. */
+export function extractPython(text: string, tree: Tree, extraStatePatterns: RegExp[], memo?: LiteralMemo | null): ExtractedFile {
   const problems: Problem[] = [];
   const matrices: MatrixLiteral[] = [];
   const constants: Constant[] = [];
@@ -97,24 +99,21 @@ export function extractPython(text: string, tree: Tree, extraStatePatterns: RegE
     groupKeyOverride?: string,
   ) => {
     const pragma = attacher.attach(statement.startIndex, scope);
-    const m = buildMatrix(
-      text,
-      'python',
-      scope,
-      {
-        name,
-        qualifiedName,
-        nameSpan,
-        span: spanOf(whole),
-        statementSpan: spanOf(statement),
-        top: toLiteralNode(literal.top),
-        nameRole: roleFromName(name, extraStatePatterns),
-        pragma,
-        arrayCall: literal.arrayCall,
-        groupKeyOverride,
-      },
-      problems,
-    );
+    const fields = {
+      name,
+      qualifiedName,
+      nameSpan,
+      span: spanOf(whole),
+      statementSpan: spanOf(statement),
+      nameRole: roleFromName(name, extraStatePatterns),
+      pragma,
+      arrayCall: literal.arrayCall,
+      groupKeyOverride,
+    };
+    const top = literal.top;
+    const m = memo
+      ? memo.build(text, 'python', scope, { ...fields, topSpan: spanOf(top), topHasError: top.hasError, top: () => toLiteralNode(top) }, problems)
+      : buildMatrix(text, 'python', scope, { ...fields, top: toLiteralNode(top) }, problems);
     if (m) matrices.push(m);
   };
 

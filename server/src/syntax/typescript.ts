@@ -11,7 +11,8 @@
  */
 import type { Node, Tree } from 'web-tree-sitter';
 import { evaluateEntry } from './evaluate';
-import { buildMatrix, PragmaAttacher, type LiteralNode } from './literal';
+import { buildMatrix, PragmaAttacher, type LiteralInput, type LiteralNode } from './literal';
+import type { LiteralMemo } from './literalMemo';
 import { roleFromName } from './roles';
 import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
 
@@ -87,7 +88,8 @@ function propertyName(key: Node): { name: string; span: Span } | null {
   return null;
 }
 
-export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: RegExp[]): ExtractedFile {
+/** `memo`, when given, reuses matrices built by earlier extractions (see literalMemo.ts); the result is the same. */
+export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: RegExp[], memo?: LiteralMemo | null): ExtractedFile {
   const problems: Problem[] = [];
   const matrices: MatrixLiteral[] = [];
   const constants: Constant[] = [];
@@ -105,6 +107,12 @@ export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: 
     problems,
   );
 
+  /** buildMatrix, through the memo when there is one (the top list is then converted only on a miss). */
+  const build = (top: Node, fields: Omit<LiteralInput, 'top'>): MatrixLiteral | null =>
+    memo
+      ? memo.build(text, 'typescript', scope, { ...fields, topSpan: spanOf(top), topHasError: top.hasError, top: () => toLiteralNode(top) }, problems)
+      : buildMatrix(text, 'typescript', scope, { ...fields, top: toLiteralNode(top) }, problems);
+
   const addMatrix = (
     statement: Node,
     name: string,
@@ -115,24 +123,17 @@ export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: 
     groupKeyOverride?: string,
   ) => {
     const pragma = attacher.attach(statement.startIndex, scope);
-    const m = buildMatrix(
-      text,
-      'typescript',
-      scope,
-      {
-        name,
-        qualifiedName,
-        nameSpan,
-        span: spanOf(whole),
-        statementSpan: spanOf(statement),
-        top: toLiteralNode(literal.top),
-        nameRole: roleFromName(name, extraStatePatterns),
-        pragma,
-        arrayCall: literal.arrayCall,
-        groupKeyOverride,
-      },
-      problems,
-    );
+    const m = build(literal.top, {
+      name,
+      qualifiedName,
+      nameSpan,
+      span: spanOf(whole),
+      statementSpan: spanOf(statement),
+      nameRole: roleFromName(name, extraStatePatterns),
+      pragma,
+      arrayCall: literal.arrayCall,
+      groupKeyOverride,
+    });
     if (m) matrices.push(m);
   };
 
@@ -161,24 +162,17 @@ export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: 
         if (!prop || !val || !lit || !roleFromName(prop.name, extraStatePatterns)) continue;
         const pm = { top: lit.top, arrayCall: lit.arrayCall };
         const pragma = attacher.attach(pair.startIndex, scope);
-        const m = buildMatrix(
-          text,
-          'typescript',
-          scope,
-          {
-            name: prop.name,
-            qualifiedName: `${qualifiedName}.${prop.name}`,
-            nameSpan: prop.span,
-            span: spanOf(unwrap(val)),
-            statementSpan: spanOf(statement),
-            top: toLiteralNode(pm.top),
-            nameRole: roleFromName(prop.name, extraStatePatterns),
-            pragma,
-            arrayCall: pm.arrayCall,
-            groupKeyOverride: nameNode.text,
-          },
-          problems,
-        );
+        const m = build(pm.top, {
+          name: prop.name,
+          qualifiedName: `${qualifiedName}.${prop.name}`,
+          nameSpan: prop.span,
+          span: spanOf(unwrap(val)),
+          statementSpan: spanOf(statement),
+          nameRole: roleFromName(prop.name, extraStatePatterns),
+          pragma,
+          arrayCall: pm.arrayCall,
+          groupKeyOverride: nameNode.text,
+        });
         if (m) matrices.push(m);
       }
       return;

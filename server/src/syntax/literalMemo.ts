@@ -1,0 +1,193 @@
+/**
+ * Memoised matrix building: a literal whose text, surroundings and visible constants are the
+ * same as in an earlier extraction is not converted and evaluated again; the earlier result is
+ * reused with every span shifted to where the literal is now.
+ *
+ * Method: memoisation with recorded dependencies (the technique of build systems and
+ * incremental compilers; A. Mokhov, N. Mitchell and S. Peyton Jones, "Build Systems à la
+ * Carte", ICFP 2018, §3 "verifying traces"). The key holds everything `buildMatrix` reads
+ * apart from the constants: the literal's text, the language, name, qualified name, role from
+ * the name, group key override, array-call flag, the pragma settings that change the result,
+ * and where the top list, name and statement lie relative to the literal. The constants it
+ * read are recorded while it runs (every `scope.get`, found or not) and checked against the
+ * current scope on reuse, so an unrelated constant changing elsewhere does not miss, and a
+ * used one changing always does.
+ *
+ * Invariants:
+ *  - only literals whose syntax subtree has no error are memoised: without an error node,
+ *    the same text parses to the same subtree wherever it stands, so the key determines the
+ *    list shape `buildMatrix` sees;
+ *  - stored spans are relative to the literal's start; every reuse returns fresh objects
+ *    (matrix, rows, entries, spans, problems) so callers may not affect the memo;
+ *  - the pragma object handed out is the caller's current one (its span is where it is now);
+ *  - the memo is bounded (entries and characters) and evicts least recently used first.
+ */
+import { buildMatrix, type LiteralInput, type LiteralNode } from './literal';
+import type { EntryValue, MatrixLiteral, Problem, SourceLanguage, Span } from './types';
+
+/** What to build, with the top list made on demand (converting it is the work being saved). */
+export interface MemoLiteralInput extends Omit<LiteralInput, 'top'> {
+  topSpan: Span;
+  /** The literal's syntax subtree contains an error (then it is always rebuilt). */
+  topHasError: boolean;
+  top: () => LiteralNode;
+}
+
+interface MemoEntry {
+  /** Constants read while building, with what they were (undefined: not defined). */
+  reads: Array<[string, EntryValue | undefined]>;
+  matrix: MatrixLiteral | null;
+  problems: Problem[];
+  size: number;
+}
+
+/** Bounds: a few thousand literals and a few million characters of keys (memory stays tens of MB). */
+const MAX_ENTRIES = 20_000;
+const MAX_CHARS = 8_000_000;
+
+/** A read-only view of the scope that records every lookup. Only `get` is used by the evaluator; the rest delegate. */
+class RecordingScope implements ReadonlyMap<string, EntryValue> {
+  readonly reads = new Map<string, EntryValue | undefined>();
+  constructor(private readonly inner: ReadonlyMap<string, EntryValue>) {}
+  get(key: string): EntryValue | undefined {
+    const v = this.inner.get(key);
+    if (!this.reads.has(key)) this.reads.set(key, v);
+    return v;
+  }
+  has(key: string): boolean {
+    return this.get(key) !== undefined;
+  }
+  get size(): number {
+    return this.inner.size;
+  }
+  // Whole-scope reads make the result depend on everything: record that by refusing to memoise.
+  wholeScopeRead = false;
+  forEach(cb: (value: EntryValue, key: string, map: ReadonlyMap<string, EntryValue>) => void): void {
+    this.wholeScopeRead = true;
+    this.inner.forEach((v, k) => cb(v, k, this));
+  }
+  entries(): MapIterator<[string, EntryValue]> {
+    this.wholeScopeRead = true;
+    return this.inner.entries();
+  }
+  keys(): MapIterator<string> {
+    this.wholeScopeRead = true;
+    return this.inner.keys();
+  }
+  values(): MapIterator<EntryValue> {
+    this.wholeScopeRead = true;
+    return this.inner.values();
+  }
+  [Symbol.iterator](): MapIterator<[string, EntryValue]> {
+    return this.entries();
+  }
+}
+
+function sameValue(a: EntryValue | undefined, b: EntryValue | undefined): boolean {
+  if (a === b) return true;
+  if (a === undefined || b === undefined || a.kind !== b.kind) return false;
+  return a.kind === 'exact' ? a.value.eq((b as typeof a).value) : Object.is(a.value, b.value);
+}
+
+const shift = (s: Span, by: number): Span => ({ start: s.start + by, end: s.end + by });
+const shiftOrNull = (s: Span | null, by: number): Span | null => (s === null ? null : shift(s, by));
+
+/** A fresh copy of `m` with every span moved by `by` and the given pragma. */
+function moved(m: MatrixLiteral, by: number, pragma: MatrixLiteral['pragma']): MatrixLiteral {
+  const copy: MatrixLiteral = {
+    ...m,
+    nameSpan: shiftOrNull(m.nameSpan, by),
+    span: shift(m.span, by),
+    statementSpan: shift(m.statementSpan, by),
+    rows: m.rows.map((row) => row.map((e) => ({ span: shift(e.span, by), text: e.text, value: e.value }))),
+    rowSpans: m.rowSpans.map((s) => shift(s, by)),
+    pragma,
+  };
+  return copy;
+}
+
+function movedProblems(ps: Problem[], by: number): Problem[] {
+  return ps.map((p) => ({ ...p, span: shift(p.span, by) }));
+}
+
+export class LiteralMemo {
+  private readonly entries = new Map<string, MemoEntry>();
+  private chars = 0;
+  /** Reuse counts (for tests and measurements). */
+  readonly stats = { hits: 0, misses: 0, unmemoised: 0 };
+
+  /** `buildMatrix` with reuse; pushes the same problems and returns the same matrix as `buildMatrix` would. */
+  build(text: string, lang: SourceLanguage, scope: ReadonlyMap<string, EntryValue>, input: MemoLiteralInput, problems: Problem[]): MatrixLiteral | null {
+    const { top, topSpan, topHasError, ...rest } = input;
+    if (topHasError) {
+      this.stats.unmemoised++;
+      return buildMatrix(text, lang, scope, { ...rest, top: top() }, problems);
+    }
+    const base = input.span.start;
+    const pragma = input.pragma;
+    const rel = (s: Span | null) => (s === null ? '-' : `${s.start - base}:${s.end - base}`);
+    const key = [
+      lang,
+      input.name ?? '',
+      input.qualifiedName ?? '',
+      rel(input.nameSpan),
+      rel(input.statementSpan),
+      rel(topSpan),
+      input.nameRole ? `${input.nameRole.role}/${input.nameRole.groupKey}` : '-',
+      pragma === null ? '-' : `${pragma.ignore === true}/${pragma.role ?? ''}/${pragma.model ?? ''}`,
+      input.arrayCall ? '1' : '0',
+      input.groupKeyOverride ?? '\u0001',
+      text.slice(input.span.start, input.span.end),
+    ].join('\u0000');
+
+    const found = this.entries.get(key);
+    if (found && found.reads.every(([name, value]) => sameValue(scope.get(name), value))) {
+      this.entries.delete(key);
+      this.entries.set(key, found);
+      this.stats.hits++;
+      problems.push(...movedProblems(found.problems, base));
+      return found.matrix ? moved(found.matrix, base, pragma) : null;
+    }
+
+    this.stats.misses++;
+    const recording = new RecordingScope(scope);
+    const local: Problem[] = [];
+    const matrix = buildMatrix(text, lang, recording, { ...rest, top: top() }, local);
+    problems.push(...local);
+    if (!recording.wholeScopeRead) {
+      if (found) this.forget(key, found);
+      const entry: MemoEntry = {
+        reads: [...recording.reads],
+        matrix: matrix ? moved(matrix, -base, null) : null,
+        problems: movedProblems(local, -base),
+        size: key.length,
+      };
+      this.entries.set(key, entry);
+      this.chars += entry.size;
+      this.evict();
+    }
+    return matrix;
+  }
+
+  clear(): void {
+    this.entries.clear();
+    this.chars = 0;
+  }
+
+  get size(): number {
+    return this.entries.size;
+  }
+
+  private forget(key: string, e: MemoEntry): void {
+    this.entries.delete(key);
+    this.chars -= e.size;
+  }
+
+  private evict(): void {
+    while (this.entries.size > MAX_ENTRIES || this.chars > MAX_CHARS) {
+      const oldest = this.entries.keys().next();
+      if (oldest.done) break;
+      this.forget(oldest.value, this.entries.get(oldest.value)!);
+    }
+  }
+}
