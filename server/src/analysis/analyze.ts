@@ -132,7 +132,7 @@ export function analyzeDocument(
     if (options.isCancelled?.()) break;
     models.push(analyseModel(file, m, byIndex, settings));
   }
-  return { language, matrices, models, findings };
+  return { language, matrices, models, findings, incomplete: overBudget > 0 };
 }
 
 function entryValues(lit: MatrixLiteral): (EntryValue | null)[][] {

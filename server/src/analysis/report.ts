@@ -93,4 +93,6 @@ export interface DocumentReport {
   models: ModelReport[];
   /** Findings not tied to one matrix (parse errors, unknown names, file caps). */
   findings: Finding[];
+  /** The time budget ran out: some state matrices were not analysed in this pass (a later pass continues). */
+  incomplete?: boolean;
 }

@@ -56,6 +56,9 @@ import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } 
 /** Diagnostics wait this long after the last keystroke (common practice for linters: 100–300 ms). */
 export const DIAGNOSTIC_DEBOUNCE_MS = 150;
 
+/** Analysis time per diagnostics pass; a larger document is finished by further passes. */
+export const DIAGNOSTIC_SLICE_MS = 250;
+
 const LANGUAGE_IDS: Record<string, SourceLanguage> = {
   python: 'python',
   typescript: 'typescript',
@@ -132,7 +135,11 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   }
 
   /** The report for the document's current version, computed at most once per version and settings. */
-  async function reportFor(doc: TextDocument, token?: CancellationToken): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
+  async function reportFor(
+    doc: TextDocument,
+    token?: CancellationToken,
+    sliceMs?: number,
+  ): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
     await ready;
     const language = languageOf(doc);
     if (!language) return null;
@@ -140,8 +147,14 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const current = documents.get(doc.uri);
     if (!current || current.version !== doc.version || token?.isCancellationRequested) return null;
     const cached = reports.get(doc.uri);
-    if (cached && cached.version === doc.version && cached.settings === settings) return { report: cached.report, settings };
-    const report = analyzeDocument(doc.getText(), language, settings.analysis, {
+    // An incomplete report (its time budget ran out) is never reused: the next call continues
+    // the work, with the matrix cache keeping everything already finished.
+    if (cached && cached.version === doc.version && cached.settings === settings && !cached.report.incomplete) {
+      return { report: cached.report, settings };
+    }
+    // Diagnostics passes run in slices; hovers and actions get the document's full budget.
+    const analysis = sliceMs !== undefined ? { ...settings.analysis, timeBudgetMs: Math.min(settings.analysis.timeBudgetMs, sliceMs) } : settings.analysis;
+    const report = analyzeDocument(doc.getText(), language, analysis, {
       cache: matrixCache,
       isCancelled: () => token?.isCancellationRequested === true,
     });
@@ -153,12 +166,15 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   async function publishDiagnostics(uri: string): Promise<void> {
     const doc = documents.get(uri);
     if (!doc) return;
-    const result = await reportFor(doc);
+    const result = await reportFor(doc, undefined, DIAGNOSTIC_SLICE_MS);
     const latest = documents.get(uri);
     // A newer version arrived while we waited: its own debounce will publish.
     if (!result || !latest || latest.version !== doc.version) return;
     const diagnostics: Diagnostic[] = diagnosticsOf(result.report).map((d) => toDiagnostic(doc, d));
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
+    // Big documents are analysed in slices: publish what is known, then continue (the matrix
+    // cache keeps every finished matrix, so each pass gets further) until the report is complete.
+    if (result.report.incomplete) scheduleDiagnostics(uri, 0);
   }
 
   function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
@@ -207,14 +223,24 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     }),
   );
 
-  documents.onDidOpen((e) => scheduleDiagnostics(e.document.uri, 0));
-  documents.onDidChangeContent((e) => scheduleDiagnostics(e.document.uri));
+  // TextDocuments fires onDidChangeContent right after onDidOpen; that first change must not
+  // replace the immediate pass of the open with a debounced one.
+  const justOpened = new Set<string>();
+  documents.onDidOpen((e) => {
+    justOpened.add(e.document.uri);
+    scheduleDiagnostics(e.document.uri, 0);
+  });
+  documents.onDidChangeContent((e) => {
+    if (justOpened.delete(e.document.uri)) return;
+    scheduleDiagnostics(e.document.uri);
+  });
   documents.onDidClose(
     guarded('close', undefined, (e) => {
       const timer = timers.get(e.document.uri);
       if (timer) clearTimeout(timer);
       timers.delete(e.document.uri);
       reports.delete(e.document.uri);
+      justOpened.delete(e.document.uri);
       settingsCache.delete(e.document.uri);
       void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
     }),
