@@ -254,7 +254,8 @@ export interface CommentSpan {
 export class LineIndex {
   readonly starts: number[] = [0];
   constructor(readonly text: string) {
-    for (let i = 0; i < text.length; i++) if (text.charCodeAt(i) === 10) this.starts.push(i + 1);
+    // indexOf is a native scan, several times faster than a loop per character on long files.
+    for (let nl = text.indexOf('\n'); nl >= 0; nl = text.indexOf('\n', nl + 1)) this.starts.push(nl + 1);
   }
   lineOf(offset: number): number {
     let lo = 0;
@@ -279,7 +280,7 @@ export class LineIndex {
 export class PragmaAttacher {
   private readonly byLine = new Map<number, CommentSpan>();
   private readonly used = new Set<number>();
-  readonly lines: LineIndex;
+  private lineIndex: LineIndex | null = null;
 
   constructor(
     private readonly text: string,
@@ -288,7 +289,6 @@ export class PragmaAttacher {
     private readonly firstCodeOffset: number,
     private readonly problems: Problem[],
   ) {
-    this.lines = new LineIndex(text);
     let from = 0;
     for (;;) {
       const at = text.indexOf('eigenlens', from);
@@ -300,6 +300,12 @@ export class PragmaAttacher {
       if (!this.byLine.has(line)) this.byLine.set(line, comment);
       from = Math.max(from, comment.end);
     }
+  }
+
+  /** Built on first use: a file without pragmas never needs it (this saves a scan of the text per extraction). */
+  get lines(): LineIndex {
+    if (!this.lineIndex) this.lineIndex = new LineIndex(this.text);
+    return this.lineIndex;
   }
 
   get hasPragmas(): boolean {
