@@ -81,3 +81,17 @@ describe('bad input', () => {
     expect(quantizeMatrix([[1]], { kind: 'fixed', integerBits: -1, fractionalBits: 3 }).ok).toBe(false);
   });
 });
+
+describe('time-constant shift under rounding', () => {
+  it('a slow pole near z = 1 is sensitive although |Δz|/|z| is tiny', () => {
+    // z = e^{−T/τ} with T/τ = 1e-5: float32 (unit roundoff 2^−24) moves z by up to ~6e-8, so the
+    // time constant τ = −T/ln z moves by |Δ ln z|/|ln z| ≈ 6e-8/1e-5 (definition of τ; IEEE 754 binary32).
+    const z = Math.exp(-1e-5);
+    const r = quantizeMatrix([[z]], { kind: 'float32' });
+    if (!r.ok) throw new Error(r.error);
+    const expected = Math.abs(Math.log(Math.fround(z)) - Math.log(z)) / Math.abs(Math.log(z));
+    expect(r.poles[0].equivalentShift).toBeCloseTo(expected, 12);
+    expect(r.poles[0].relativeMovement).toBeLessThan(1e-7);
+    expect(r.sensitive).toBe(expected > 1e-3);
+  });
+});

@@ -170,9 +170,8 @@ export function analyseModel(
         continue;
       }
       out.quantization.push(q);
-      const shift = equivalentPoleShift(q);
-      if (q.crossedUnitCircle || shift.worst > settings.quantizationThreshold) {
-        addFinding(model.state, quantizationFinding(q, shift, stateLit, domain === 'discrete' ? label : `its discrete matrix Ad`, settings));
+      if (q.sensitive) {
+        addFinding(model.state, quantizationFinding(q, stateLit, domain === 'discrete' ? label : `its discrete matrix Ad`, settings));
       }
     }
   }
@@ -208,39 +207,14 @@ export function analyseModel(
   return out;
 }
 
-/**
- * How much rounding changes what each pole means: the relative change of its continuous
- * equivalent ln(z) (so of its time constant and frequency), |ln z' − ln z| / |ln z|.
- * A pole at z = 0.99999 moving by 1e-8 is a 0.1 % change in its time constant although
- * |Δz|/|z| is only 1e-8, which is why poles near z = 1 (fast sampling of slow plants) are
- * the sensitive ones. Poles at z = 1 (integrators) have no relative measure and are judged
- * by the unit-circle crossing alone.
- */
-function equivalentPoleShift(q: QuantizationSuccess): { worst: number; index: number } {
-  let worst = 0;
-  let index = 0;
-  q.poles.forEach((p, i) => {
-    const lb = { re: Math.log(Math.hypot(p.before.re, p.before.im)), im: Math.atan2(p.before.im, p.before.re) };
-    const la = { re: Math.log(Math.hypot(p.after.re, p.after.im)), im: Math.atan2(p.after.im, p.after.re) };
-    const size = Math.hypot(lb.re, lb.im);
-    if (!(size > 1e-300) || !Number.isFinite(size)) return;
-    const rel = Math.hypot(la.re - lb.re, la.im - lb.im) / size;
-    if (rel > worst) {
-      worst = rel;
-      index = i;
-    }
-  });
-  return { worst, index };
-}
-
-function quantizationFinding(q: QuantizationSuccess, shift: { worst: number; index: number }, lit: MatrixLiteral, what: string, settings: AnalysisSettings): Finding {
+function quantizationFinding(q: QuantizationSuccess, lit: MatrixLiteral, what: string, settings: AnalysisSettings): Finding {
   const fmtName = q.format.kind === 'float32' ? 'float32' : `Q${q.format.integerBits}.${q.format.fractionalBits} fixed point`;
-  const worst = q.poles[shift.index];
+  const worst = q.poles.reduce((x, y) => (y.equivalentShift > x.equivalentShift ? y : x), q.poles[0]);
   const crossed = q.crossedUnitCircle ? ' A pole crossed onto or outside the unit circle: the rounded filter is not stable.' : '';
   return {
     span: lit.span,
     severity: 'warning',
     code: 'float32-sensitive',
-    message: `Rounding ${what} to ${fmtName} moves a pole by ${formatNumber(worst.movement, 3)}, which changes its time constant or frequency by ${formatNumber(100 * shift.worst, 3)} % (above ${formatNumber(100 * settings.quantizationThreshold, 3)} %, setting eigenlens.quantizationThreshold): z = ${formatNumber(worst.before.re, 12)}${worst.before.im ? ` ${worst.before.im < 0 ? '−' : '+'} ${formatNumber(Math.abs(worst.before.im), 12)}j` : ''} becomes ${formatNumber(worst.after.re, 12)}${worst.after.im ? ` ${worst.after.im < 0 ? '−' : '+'} ${formatNumber(Math.abs(worst.after.im), 12)}j` : ''}.${crossed}${q.saturated.length ? ` ${q.saturated.length} entr${q.saturated.length === 1 ? 'y saturates' : 'ies saturate'}.` : ''}`,
+    message: `Rounding ${what} to ${fmtName} moves a pole by ${formatNumber(worst.movement, 3)}, which changes its time constant or frequency by ${formatNumber(100 * worst.equivalentShift, 3)} % (above ${formatNumber(100 * settings.quantizationThreshold, 3)} %, setting eigenlens.quantizationThreshold): z = ${formatNumber(worst.before.re, 12)}${worst.before.im ? ` ${worst.before.im < 0 ? '−' : '+'} ${formatNumber(Math.abs(worst.before.im), 12)}j` : ''} becomes ${formatNumber(worst.after.re, 12)}${worst.after.im ? ` ${worst.after.im < 0 ? '−' : '+'} ${formatNumber(Math.abs(worst.after.im), 12)}j` : ''}.${crossed}${q.saturated.length ? ` ${q.saturated.length} entr${q.saturated.length === 1 ? 'y saturates' : 'ies saturate'}.` : ''}`,
   };
 }

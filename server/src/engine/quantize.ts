@@ -45,6 +45,13 @@ export interface PoleMovement {
   radiusAfter: number;
   /** Was inside the unit circle, is now on or outside it. */
   crossedUnitCircle: boolean;
+  /**
+   * Relative change of the pole's continuous equivalent, |ln z' − ln z| / |ln z| — so of its
+   * time constant and frequency. A pole at z = 0.99999 moving by 1e-8 changes its time constant
+   * by 0.1 % although |Δz|/|z| is 1e-8: poles near z = 1 (fast sampling of slow plants) are the
+   * sensitive ones. 0 for z = 1 or z = 0 (no relative measure; crossing decides there).
+   */
+  equivalentShift: number;
 }
 
 export interface SaturatedEntry {
@@ -55,16 +62,25 @@ export interface SaturatedEntry {
 }
 
 export interface QuantizationOptions {
-  /** A relative pole movement above this makes the matrix "sensitive". */
+  /** A relative shift of a pole's continuous equivalent (time constant, frequency) above this makes the matrix "sensitive". */
   relativeThreshold: number;
 }
 
 /**
- * Default 1e-4: about 1700× the float32 unit roundoff 2^−24 ≈ 6e-8. A well-separated pole
- * moves by about the coefficient error; movement a thousand times larger means clustering
- * is amplifying it (our choice of threshold, exposed as a parameter).
+ * Default 1e-3: a 0.1 % change of a time constant or frequency, about 17,000× the float32 unit
+ * roundoff 2^−24 ≈ 6e-8 (our choice of threshold, exposed as a parameter).
  */
-export const DEFAULT_QUANTIZATION_OPTIONS: QuantizationOptions = { relativeThreshold: 1e-4 };
+export const DEFAULT_QUANTIZATION_OPTIONS: QuantizationOptions = { relativeThreshold: 1e-3 };
+
+function equivalentShift(b: ComplexPoint, a: ComplexPoint): number {
+  const rb = Math.hypot(b.re, b.im);
+  const ra = Math.hypot(a.re, a.im);
+  if (!(rb > 0) || !(ra > 0)) return 0;
+  const lb = { re: Math.log(rb), im: Math.atan2(b.im, b.re) };
+  const la = { re: Math.log(ra), im: Math.atan2(a.im, a.re) };
+  const size = Math.hypot(lb.re, lb.im);
+  return size > 0 ? Math.hypot(la.re - lb.re, la.im - lb.im) / size : 0;
+}
 
 export interface QuantizationSuccess {
   ok: true;
@@ -76,8 +92,10 @@ export interface QuantizationSuccess {
   poles: PoleMovement[];
   maxMovement: number;
   maxRelativeMovement: number;
+  /** Largest PoleMovement.equivalentShift. */
+  maxEquivalentShift: number;
   crossedUnitCircle: boolean;
-  /** maxRelativeMovement > threshold or some pole crossed the unit circle. */
+  /** maxEquivalentShift > threshold or some pole crossed the unit circle. */
   sensitive: boolean;
   threshold: number;
 }
@@ -140,11 +158,13 @@ export function quantizeMatrix(Ad: number[][], format: QuantizationFormat, optio
       radiusBefore: rb,
       radiusAfter: ra,
       crossedUnitCircle: rb < 1 - tol && ra >= 1 - tol,
+      equivalentShift: equivalentShift(b, a),
     };
   });
   const maxMovement = Math.max(0, ...poles.map((p) => p.movement));
   const maxRelativeMovement = Math.max(0, ...poles.map((p) => p.relativeMovement));
   const crossedUnitCircle = poles.some((p) => p.crossedUnitCircle);
+  const maxEquivalentShift = Math.max(0, ...poles.map((p) => p.equivalentShift));
   return {
     ok: true,
     format,
@@ -155,7 +175,8 @@ export function quantizeMatrix(Ad: number[][], format: QuantizationFormat, optio
     maxMovement,
     maxRelativeMovement,
     crossedUnitCircle,
-    sensitive: crossedUnitCircle || maxRelativeMovement > o.relativeThreshold,
+    maxEquivalentShift,
+    sensitive: crossedUnitCircle || maxEquivalentShift > o.relativeThreshold,
     threshold: o.relativeThreshold,
   };
 }

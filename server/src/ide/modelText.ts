@@ -71,7 +71,7 @@ function quantizationText(q: QuantizationSuccess, precision: number): string {
   const format = q.format.kind === 'float32' ? 'float32' : `Q${q.format.integerBits}.${q.format.fractionalBits} fixed point`;
   const verdict = q.crossedUnitCircle ? '**a pole crossed onto or outside the unit circle**' : q.sensitive ? '**sensitive**' : 'fine';
   const saturated = q.saturated.length ? `, ${q.saturated.length} entr${q.saturated.length === 1 ? 'y saturates' : 'ies saturate'}` : '';
-  return `${format}: poles move by at most ${formatNumber(q.maxMovement, Math.min(precision, 3))} (relative ${formatNumber(q.maxRelativeMovement, Math.min(precision, 3))}, threshold ${formatNumber(q.threshold, 3)}) — ${verdict}${saturated}`;
+  return `${format}: poles move by at most ${formatNumber(q.maxMovement, Math.min(precision, 3))} (time constants and frequencies change by up to ${formatNumber(100 * q.maxEquivalentShift, Math.min(precision, 3))} %, threshold ${formatNumber(100 * q.threshold, 3)} %) — ${verdict}${saturated}`;
 }
 
 function rangeText(advice: NonNullable<ModelReport['periodAdvice']>, precision: number): string | null {
