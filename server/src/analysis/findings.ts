@@ -8,7 +8,7 @@ import type { MatrixLiteral } from '../syntax/types';
 import type { MatrixCore } from './analyze';
 import type { Finding, MatrixReport } from './report';
 import type { AnalysisSettings } from './settings';
-import { eigenvalueLabel, formatNumber, formatSeconds } from './numberText';
+import { eigenvalueLabel, formatNumber, formatSeconds, polynomialGrowth } from './numberText';
 
 /** Cancellation factor above which a closed form loses more than 6 of 16 digits (our choice). */
 const CANCELLATION_LIMIT = 1e6;
@@ -53,7 +53,7 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
       .filter(({ m }) => m.behaviour === 'grows' || m.behaviour === 'growing-oscillation' || m.behaviour === 'polynomial-growth');
     const parts = growing.map(({ m, e }) => {
       const name = eigenvalueLabel(e);
-      if (m.behaviour === 'polynomial-growth') return `${name} sits on the ${boundaryWord} with a Jordan block of size ${Math.max(...e.blocks)}, so it grows like ${continuous ? 't' : 'k'}^${Math.max(...e.blocks) - 1}`;
+      if (m.behaviour === 'polynomial-growth') return `${name} sits on the ${boundaryWord} with a Jordan block of size ${Math.max(...e.blocks)}, so it grows ${polynomialGrowth(continuous ? 't' : 'k', Math.max(...e.blocks))}`;
       const dbl = m.doublingTime !== null ? `, doubling every ${continuous || report.period !== null ? formatSeconds(m.doublingTime) : `${formatNumber(m.doublingTime, 3)} steps`}` : '';
       return `${name} grows${dbl}`;
     });

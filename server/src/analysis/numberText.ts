@@ -48,3 +48,11 @@ export function eigenvalueLabel(e: { text: string; im: number }, symbol = 'λ'):
   }
   return `${symbol} ${rel} ${text}`;
 }
+
+/** "linearly (like t)", "like t²", "like k³": how a boundary Jordan block of size `block` grows. */
+export function polynomialGrowth(variable: 't' | 'k', block: number): string {
+  const m = block - 1;
+  if (m <= 1) return `linearly (like ${variable})`;
+  const sup: Record<string, string> = { '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+  return `like ${variable}${String(m).split('').map((c) => sup[c]).join('')}`;
+}

@@ -6,6 +6,7 @@
  */
 import type { Eigenvalue, Mode } from '../engine/types';
 import type { MatrixReport } from '../analysis/report';
+import { polynomialGrowth } from '../analysis/numberText';
 import { eigenvalueDecimal, eigenvalueText, formatDuration, formatNumber, needsDecimal, lambdaIs } from './format';
 
 export const GROWING: ReadonlySet<Mode['behaviour']> = new Set(['grows', 'growing-oscillation', 'polynomial-growth']);
@@ -77,7 +78,7 @@ export function lensTitle(report: MatrixReport, precision: number): string {
     const wev = eigenvalueOf(report, worst) ?? ev;
     const wl = shortLambda(wev, precision);
     if (worst.behaviour === 'polynomial-growth') {
-      return `⚠ unstable: ${wl} repeated on the ${report.domain === 'continuous' ? 'imaginary axis' : 'unit circle'} grows like ${report.domain === 'continuous' ? 't' : 'k'}^${Math.max(...wev.blocks) - 1}`;
+      return `⚠ unstable: ${wl} repeated on the ${report.domain === 'continuous' ? 'imaginary axis' : 'unit circle'} grows ${polynomialGrowth(report.domain === 'continuous' ? 't' : 'k', Math.max(...wev.blocks))}`;
     }
     if (worst.doublingTime !== null) return `⚠ unstable: ${wl} doubles every ${timeOrSteps(report, worst.doublingTime, precision)}`;
     return `⚠ unstable: ${wl} grows`;
@@ -153,7 +154,7 @@ export function behaviourText(report: MatrixReport, mode: Mode, precision: numbe
     case 'polynomial-growth': {
       const b = ev ? Math.max(...ev.blocks) : 2;
       const v = report.domain === 'continuous' ? 't' : 'k';
-      return `grows like ${v}^${b - 1}: a Jordan block of size ${b} on the ${report.domain === 'continuous' ? 'imaginary axis' : 'unit circle'}${mode.period !== null ? `, oscillating with period ${t(mode.period)}` : ''}`;
+      return `grows ${polynomialGrowth(v, b)}: a Jordan block of size ${b} on the ${report.domain === 'continuous' ? 'imaginary axis' : 'unit circle'}${mode.period !== null ? `, oscillating with period ${t(mode.period)}` : ''}`;
     }
     case 'deadbeat': {
       const b = ev ? Math.max(...ev.blocks) : 1;
