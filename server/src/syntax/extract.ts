@@ -36,7 +36,7 @@ export function clearExtractCaches(): void {
 /** How many parses were served unchanged, incrementally or from scratch since start. */
 export function extractCacheStats(): {
   parses: { unchanged: number; incremental: number; full: number };
-  literals: { hits: number; misses: number; unmemoised: number };
+  literals: { hits: number; misses: number; unmemoised: number; skippedStatements: number };
 } {
   return { parses: { ...parseCache.stats }, literals: { ...literalMemo.stats } };
 }

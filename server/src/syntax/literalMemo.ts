@@ -21,6 +21,13 @@
  *    (matrix, rows, entries, spans, problems) so callers may not affect the memo;
  *  - the pragma object handed out is the caller's current one (its span is where it is now);
  *  - the memo is bounded (entries and characters) and evicts least recently used first.
+ *
+ * Inert statements: the extractors also remember the text of top-level statements (function
+ * and class definitions and the like) whose walk found nothing at all — no assignment,
+ * declaration or matrix anywhere inside. Such a statement, unchanged and without syntax
+ * errors, is skipped without visiting its nodes (same reasoning: same text, same subtree,
+ * and nothing in it reads or changes the constants). Walking those nodes through the WASM
+ * boundary was most of an extraction once the literals were reused.
  */
 import { buildMatrix, type LiteralInput, type LiteralNode } from './literal';
 import type { EntryValue, MatrixLiteral, Problem, SourceLanguage, Span } from './types';
@@ -110,11 +117,44 @@ function movedProblems(ps: Problem[], by: number): Problem[] {
   return ps.map((p) => ({ ...p, span: shift(p.span, by) }));
 }
 
+/** A bounded set of statement texts, least recently used evicted first. */
+export class InertStatements {
+  private readonly texts = new Set<string>();
+  private chars = 0;
+  constructor(
+    private readonly maxEntries = 50_000,
+    private readonly maxChars = 8_000_000,
+  ) {}
+  has(text: string): boolean {
+    if (!this.texts.has(text)) return false;
+    this.texts.delete(text);
+    this.texts.add(text);
+    return true;
+  }
+  add(text: string): void {
+    if (this.texts.has(text)) return;
+    this.texts.add(text);
+    this.chars += text.length;
+    while (this.texts.size > this.maxEntries || this.chars > this.maxChars) {
+      const oldest = this.texts.values().next();
+      if (oldest.done) break;
+      this.texts.delete(oldest.value);
+      this.chars -= oldest.value.length;
+    }
+  }
+  clear(): void {
+    this.texts.clear();
+    this.chars = 0;
+  }
+}
+
 export class LiteralMemo {
   private readonly entries = new Map<string, MemoEntry>();
   private chars = 0;
+  /** Top-level statements known to hold nothing the extractors collect (see the file header). */
+  readonly inert = new InertStatements();
   /** Reuse counts (for tests and measurements). */
-  readonly stats = { hits: 0, misses: 0, unmemoised: 0 };
+  readonly stats = { hits: 0, misses: 0, unmemoised: 0, skippedStatements: 0 };
 
   /** `buildMatrix` with reuse; pushes the same problems and returns the same matrix as `buildMatrix` would. */
   build(text: string, lang: SourceLanguage, scope: ReadonlyMap<string, EntryValue>, input: MemoLiteralInput, problems: Problem[]): MatrixLiteral | null {
@@ -172,6 +212,7 @@ export class LiteralMemo {
   clear(): void {
     this.entries.clear();
     this.chars = 0;
+    this.inert.clear();
   }
 
   get size(): number {

@@ -165,23 +165,45 @@ export function extractPython(text: string, tree: Tree, extraStatePatterns: RegE
   };
 
   // Document-order walk over statements with an explicit stack (deeply nested code cannot overflow).
-  const stack: Node[] = [root];
-  while (stack.length > 0) {
-    const node = stack.pop()!;
-    if (node.type === 'expression_statement') {
-      for (const c of namedKids(node)) {
-        if (c.type === 'assignment') handleAssignment(c, node);
-        else if (c.type === 'augmented_assignment') {
-          const target = c.childForFieldName('left');
-          if (target) forget(target);
+  // `effects` counts assignments seen, so that a top-level statement whose walk found none can be
+  // remembered as inert and skipped unvisited next time (see literalMemo.ts).
+  let effects = 0;
+  const walkFrom = (start: Node) => {
+    const stack: Node[] = [start];
+    while (stack.length > 0) {
+      const node = stack.pop()!;
+      if (node.type === 'expression_statement') {
+        for (const c of namedKids(node)) {
+          if (c.type === 'assignment') {
+            effects++;
+            handleAssignment(c, node);
+          } else if (c.type === 'augmented_assignment') {
+            effects++;
+            const target = c.childForFieldName('left');
+            if (target) forget(target);
+          }
         }
+        continue;
       }
+      // Only statement containers are entered; expressions are never walked.
+      if (!CONTAINERS.has(node.type)) continue;
+      const kids = namedKids(node);
+      for (let i = kids.length - 1; i >= 0; i--) stack.push(kids[i]);
+    }
+  };
+  const inert = memo ? memo.inert : null;
+  for (const statement of namedKids(root)) {
+    const key =
+      inert && statement.type !== 'expression_statement' && CONTAINERS.has(statement.type) && !statement.hasError
+        ? `py\u0000${text.slice(statement.startIndex, statement.endIndex)}`
+        : null;
+    if (key !== null && inert!.has(key)) {
+      memo!.stats.skippedStatements++;
       continue;
     }
-    // Only statement containers are entered; expressions are never walked.
-    if (node !== root && !CONTAINERS.has(node.type)) continue;
-    const kids = namedKids(node);
-    for (let i = kids.length - 1; i >= 0; i--) stack.push(kids[i]);
+    const before = effects;
+    walkFrom(statement);
+    if (key !== null && effects === before) inert!.add(key);
   }
 
   const filePragma = attacher.finish();

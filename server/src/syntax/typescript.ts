@@ -198,41 +198,62 @@ export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: 
     }
   };
 
-  const stack: Array<{ node: Node; statement: Node | null }> = [{ node: root, statement: null }];
-  while (stack.length > 0) {
-    const { node, statement } = stack.pop()!;
-    const outer = statement ?? node;
-    switch (node.type) {
-      case 'lexical_declaration':
-      case 'variable_declaration':
-        handleDeclaration(node, outer);
-        continue;
-      case 'public_field_definition': {
-        const name = node.childForFieldName('name');
-        if (name && name.type === 'property_identifier') bind(node, name, name, node.childForFieldName('value'));
-        continue;
-      }
-      case 'expression_statement': {
-        const e = namedKids(node)[0];
-        if (e && e.type === 'assignment_expression') {
-          const left = e.childForFieldName('left');
-          const right = e.childForFieldName('right');
-          if (left && (left.type === 'identifier' || left.type === 'member_expression')) {
-            const nameNode = left.type === 'member_expression' ? left.childForFieldName('property') : left;
-            if (nameNode) bind(node, left, nameNode, right);
-          }
-        } else if (e && e.type === 'augmented_assignment_expression') {
-          const left = e.childForFieldName('left');
-          if (left) scope.delete(left.text);
+  // `effects` counts declarations and assignments seen, so that a top-level statement whose walk
+  // found none can be remembered as inert and skipped unvisited next time (see literalMemo.ts).
+  let effects = 0;
+  const walkFrom = (start: Node) => {
+    const stack: Array<{ node: Node; statement: Node | null }> = [{ node: start, statement: null }];
+    while (stack.length > 0) {
+      const { node, statement } = stack.pop()!;
+      const outer = statement ?? node;
+      switch (node.type) {
+        case 'lexical_declaration':
+        case 'variable_declaration':
+          effects++;
+          handleDeclaration(node, outer);
+          continue;
+        case 'public_field_definition': {
+          effects++;
+          const name = node.childForFieldName('name');
+          if (name && name.type === 'property_identifier') bind(node, name, name, node.childForFieldName('value'));
+          continue;
         }
-        continue;
+        case 'expression_statement': {
+          const e = namedKids(node)[0];
+          if (e && e.type === 'assignment_expression') {
+            effects++;
+            const left = e.childForFieldName('left');
+            const right = e.childForFieldName('right');
+            if (left && (left.type === 'identifier' || left.type === 'member_expression')) {
+              const nameNode = left.type === 'member_expression' ? left.childForFieldName('property') : left;
+              if (nameNode) bind(node, left, nameNode, right);
+            }
+          } else if (e && e.type === 'augmented_assignment_expression') {
+            effects++;
+            const left = e.childForFieldName('left');
+            if (left) scope.delete(left.text);
+          }
+          continue;
+        }
       }
+      if (!CONTAINERS.has(node.type)) continue;
+      const kids = namedKids(node);
+      // An `export const …` keeps the export statement as the statement span.
+      const childStatement = node.type === 'export_statement' ? outer : null;
+      for (let i = kids.length - 1; i >= 0; i--) stack.push({ node: kids[i], statement: childStatement });
     }
-    if (node !== root && !CONTAINERS.has(node.type)) continue;
-    const kids = namedKids(node);
-    // An `export const …` keeps the export statement as the statement span.
-    const childStatement = node.type === 'export_statement' ? outer : null;
-    for (let i = kids.length - 1; i >= 0; i--) stack.push({ node: kids[i], statement: childStatement });
+  };
+  const inert = memo ? memo.inert : null;
+  for (const statement of namedKids(root)) {
+    const key =
+      inert && CONTAINERS.has(statement.type) && !statement.hasError ? `ts\u0000${text.slice(statement.startIndex, statement.endIndex)}` : null;
+    if (key !== null && inert!.has(key)) {
+      memo!.stats.skippedStatements++;
+      continue;
+    }
+    const before = effects;
+    walkFrom(statement);
+    if (key !== null && effects === before) inert!.add(key);
   }
 
   const filePragma = attacher.finish();
