@@ -48,9 +48,13 @@ interface MemoEntry {
   size: number;
 }
 
-/** Bounds: a few thousand literals and a few million characters of keys (memory stays tens of MB). */
+/**
+ * Bounds. A built entry costs roughly 100 bytes per character of literal text (an object, a
+ * span and a value per entry), so a million characters of keys keeps the memo near 100 MB in
+ * the worst case; a typical file needs a few hundred thousand.
+ */
 const MAX_ENTRIES = 20_000;
-const MAX_CHARS = 8_000_000;
+const MAX_CHARS = 1_000_000;
 
 /** A read-only view of the scope that records every lookup. Only `get` is used by the evaluator; the rest delegate. */
 class RecordingScope implements ReadonlyMap<string, EntryValue> {
@@ -123,7 +127,7 @@ export class InertStatements {
   private chars = 0;
   constructor(
     private readonly maxEntries = 50_000,
-    private readonly maxChars = 8_000_000,
+    private readonly maxChars = 4_000_000,
   ) {}
   has(text: string): boolean {
     if (!this.texts.has(text)) return false;
