@@ -51,8 +51,6 @@ export function exactSpectrum(a: Rational[][], opts: ExactSpectrumOptions = {}):
     const roots = rootsOf(factor);
     if (degree >= 3) {
       notes.push(`Roots of the irreducible factor ${polyToString(factor, 'x')} are numeric (degree ${degree}).`);
-      const worst = Math.max(...roots.map((r) => rootErrorBound(factor, r)));
-      if (worst > 1e-10) notes.push(`Those roots are clustered: double precision pins them down only to about ${worst.toExponential(1)}.`);
     }
     factors.push({
       coeffs: factor,
@@ -83,33 +81,9 @@ export function exactSpectrum(a: Rational[][], opts: ExactSpectrumOptions = {}):
     eigenvalues,
     defective: factors.some((f) => f.geometric < f.algebraic),
     clusterTolerance: null,
-    nearRepeated: nearRepeatedPairs(eigenvalues, threshold, factors),
+    nearRepeated: nearRepeatedPairs(eigenvalues, threshold),
     notes,
   };
-}
-
-/**
- * First-order forward error bound of a simple numeric root λ of q from rounding its
- * coefficients and evaluating in double precision: |Δλ| ≲ 4u·Σ|q_i||λ|^i / |q'(λ)|
- * (Wilkinson, Rounding Errors in Algebraic Processes, 1963, ch. 2, from memory). It is large
- * exactly when roots cluster (q'(λ) small), which is when the roots' decimals cannot be trusted.
- */
-function rootErrorBound(q: PolyQ, root: Root): number {
-  let absSum = 0;
-  let dRe = 0;
-  let dIm = 0;
-  const r = Math.hypot(root.re, root.im);
-  // q'(λ) by Horner over the derivative's coefficients, in complex doubles.
-  for (let i = q.length - 1; i >= 1; i--) {
-    const c = i * q[i].toNumber();
-    const re = dRe * root.re - dIm * root.im + c;
-    const im = dRe * root.im + dIm * root.re;
-    dRe = re;
-    dIm = im;
-  }
-  for (let i = 0; i < q.length; i++) absSum += Math.abs(q[i].toNumber()) * r ** i;
-  const dq = Math.hypot(dRe, dIm);
-  return dq === 0 ? Number.POSITIVE_INFINITY : (4 * 2 ** -53 * absSum) / dq;
 }
 
 function validate(a: unknown, maxSize: number): asserts a is Rational[][] {
@@ -146,20 +120,13 @@ function rootsOf(f: PolyQ): Root[] {
   return polynomialRoots(f).map((z) => ({ re: z.re, im: z.im, exact: null, text: numericRootText(z.re, z.im) }));
 }
 
-function nearRepeatedPairs(ev: Eigenvalue[], threshold: number, factors: IrreducibleFactor[]): { a: number; b: number; separation: number }[] {
+function nearRepeatedPairs(ev: Eigenvalue[], threshold: number): { a: number; b: number; separation: number }[] {
   const out: { a: number; b: number; separation: number }[] = [];
-  // Numeric roots whose own error bound is comparable to their separation count as nearly
-  // repeated too: their computed separation is itself noise.
-  const bound = ev.map((e) => {
-    if (e.exact) return 0;
-    const f = factors.find((g) => g.roots.some((r) => r.re === e.re && r.im === e.im));
-    return f ? rootErrorBound(f.coeffs, e) : 0;
-  });
   for (let i = 0; i < ev.length; i++) {
     for (let j = i + 1; j < ev.length; j++) {
       const sep = Math.hypot(ev[i].re - ev[j].re, ev[i].im - ev[j].im);
       const scale = Math.max(1, Math.hypot(ev[i].re, ev[i].im), Math.hypot(ev[j].re, ev[j].im));
-      if (sep <= threshold * scale || sep <= 100 * (bound[i] + bound[j])) out.push({ a: i, b: j, separation: sep });
+      if (sep <= threshold * scale) out.push({ a: i, b: j, separation: sep });
     }
   }
   return out;
