@@ -70,8 +70,16 @@ for (const language of ['python', 'typescript']) {
     edit.push(ms(t0));
     count = file.matrices.length;
   }
+  // The same edited text without any reuse (what every extraction cost before the caches).
+  const scratch = [];
+  for (let r = 0; r < runs; r++) {
+    const t0 = process.hrtime.bigint();
+    syntax.extract(current, language, { reuse: false });
+    scratch.push(ms(t0));
+  }
   console.log(
     `${language}: ${text.length} chars, ${count} matrices; cold extract median ${median(cold).toFixed(1)} ms (min ${Math.min(...cold).toFixed(1)}); ` +
-      `edit → extract median ${median(edit).toFixed(1)} ms (min ${Math.min(...edit).toFixed(1)})`,
+      `edit → extract median ${median(edit).toFixed(1)} ms (min ${Math.min(...edit).toFixed(1)}); ` +
+      `without reuse median ${median(scratch).toFixed(1)} ms (min ${Math.min(...scratch).toFixed(1)})`,
   );
 }
