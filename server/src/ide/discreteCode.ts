@@ -199,8 +199,12 @@ function discreteNames(matrix: MatrixReport, documentText: string) {
   const base = matrix.name ?? 'A';
   const rest = /^[A-Za-z]$/.test(base) ? '' : base.slice(1).replace(/^_/, '').replace(/[^A-Za-z0-9_]/g, '_');
   const outside = textOutsideBlock(documentText, matrix);
-  // Every name a matrix has appears in the text, so the text outside our own blocks is the whole check.
-  const used = (name: string) => new RegExp(`(^|[^A-Za-z0-9_])${name}($|[^A-Za-z0-9_])`).test(outside);
+  // A name is taken when something outside our own blocks defines it (an assignment, a def,
+  // a function, a class, an import alias); a mention in a comment or docstring does not count.
+  const used = (name: string) =>
+    new RegExp(
+      `(^|\\n)[ \\t]*(?:(?:export\\s+)?(?:const|let|var)\\s+|self\\.)?${name}\\s*(?::[^=\\n]*)?=(?!=)|\\b(?:def|function|class)\\s+${name}\\b|\\bimport\\s+.*\\bas\\s+${name}\\b|\\b${name}\\s*,[^\\n=]*=`,
+    ).test(outside);
   const make = (letter: string, k: number) => (rest === '' ? (k === 1 ? `${letter}d` : `${letter}_d${k}`) : `${letter}_${rest}_d${k === 1 ? '' : k}`);
   const stateLetter = /^[AF]/.test(base) ? base[0] : 'A';
   for (let k = 1; ; k++) {
