@@ -13,7 +13,8 @@ import { join } from 'node:path';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { clearExtractCaches, extract, extractCacheStats, initParsers } from '../../server/src/syntax/extract';
-import { singleEdit } from '../../server/src/syntax/incrementalParse';
+import { ParseCache, singleEdit } from '../../server/src/syntax/incrementalParse';
+import { loadedParsers } from '../../server/src/syntax/treeSitter';
 import type { SourceLanguage } from '../../server/src/syntax/types';
 // @ts-expect-error plain JavaScript module without type declarations
 import { generateSourceFile } from '../bench/generate.mjs';
@@ -73,6 +74,45 @@ describe('singleEdit: one range replacement that rebuilds the new text', () => {
   });
   it('equal texts give an empty edit', () => {
     expect(singleEdit(base, base)).toEqual({ startIndex: base.length, oldEndIndex: base.length, newEndIndex: base.length });
+  });
+});
+
+describe('ParseCache: trees equal a fresh parse; bounded by count and characters', () => {
+  it('the re-parsed tree prints as the fresh tree after each random edit', () => {
+    const parser = loadedParsers()!.python;
+    const seedText = demo('kiln_zones.py');
+    fc.assert(
+      fc.property(fc.array(editArb, { minLength: 1, maxLength: 6 }), (edits) => {
+        const cache = new ParseCache(2);
+        let text = seedText;
+        cache.parse(parser, 'python', text);
+        for (const e of edits) {
+          text = applyEdit(text, e);
+          const fresh = parser.parse(text)!;
+          expect(cache.parse(parser, 'python', text)!.rootNode.toString()).toBe(fresh.rootNode.toString());
+          fresh.delete();
+        }
+        expect(cache.stats.incremental + cache.stats.unchanged).toBe(edits.length);
+        cache.clear();
+      }),
+      { seed: 5, numRuns: 40 },
+    );
+  });
+
+  it('keeps at most its count and its characters (the newest always), and parses evicted texts afresh', () => {
+    const parser = loadedParsers()!.python;
+    const cache = new ParseCache(3, 100);
+    const texts = ['a = 1\n', 'b = [[1, 2]]\n', 'c = 3\n', 'd = 4\n'];
+    for (const t of texts) cache.parse(parser, 'python', t);
+    expect(cache.size).toBe(3);
+    const big = 'x = 1\n'.repeat(40);
+    cache.parse(parser, 'python', big);
+    expect(cache.size).toBe(1);
+    const fullBefore = cache.stats.full;
+    expect(cache.parse(parser, 'python', texts[0])!.rootNode.toString()).toContain('assignment');
+    expect(cache.stats.full).toBe(fullBefore + 1);
+    cache.clear();
+    expect(cache.size).toBe(0);
   });
 });
 

@@ -29,6 +29,12 @@ interface CachedParse {
 
 /** How many texts are kept: a few open documents, each with its last version. */
 export const PARSE_CACHE_SIZE = 8;
+/**
+ * And at most this many characters of text in all: a tree takes tens of bytes per character of
+ * source, so this keeps the cached trees within a few hundred MB even for the largest files
+ * analysed; the newest tree is always kept.
+ */
+export const PARSE_CACHE_CHARS = 4_000_000;
 
 /**
  * Reuse pays off when most of the text is unchanged; below this share of the longer text a
@@ -92,7 +98,10 @@ export class ParseCache {
   /** How each parse was served (for tests and measurements). */
   readonly stats = { unchanged: 0, incremental: 0, full: 0 };
 
-  constructor(private readonly capacity = PARSE_CACHE_SIZE) {}
+  constructor(
+    private readonly capacity = PARSE_CACHE_SIZE,
+    private readonly maxChars = PARSE_CACHE_CHARS,
+  ) {}
 
   /**
    * A syntax tree of `text`, owned by the cache (do not delete it). Null when the parser gives
@@ -170,6 +179,12 @@ export class ParseCache {
 
   private insert(e: CachedParse): void {
     this.entries.push(e);
-    while (this.entries.length > this.capacity) this.entries.shift()!.tree.delete();
+    let chars = 0;
+    for (const x of this.entries) chars += x.text.length;
+    while (this.entries.length > 1 && (this.entries.length > this.capacity || chars > this.maxChars)) {
+      const evicted = this.entries.shift()!;
+      chars -= evicted.text.length;
+      evicted.tree.delete();
+    }
   }
 }
