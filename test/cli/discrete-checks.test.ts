@@ -102,3 +102,22 @@ describe('controllability through the CLI', () => {
     expect(c.diagnostics.map((d: any) => d.code)).toContain('unobservable-mode');
   });
 });
+
+describe('the reverse of zero-order hold', () => {
+  it('a discrete model typed in code gives back the continuous model it samples', () => {
+    // CHECKS check 22 (Franklin, Powell & Workman, ch. 4, from memory): the ZOH of [[0,1],[−4,−2]]
+    // at T = 0.1. Round trip: ZOH through the CLI, then the discrete matrices in a new file.
+    const forward = stateOf(cliJson('A = [[0, 1], [-4, -2]]\nB = [[0], [1]]\n', '.py', ['--period', '0.1', '--discretize', 'zoh']));
+    const { Ad, Bd } = forward.discrete;
+    const src = `# eigenlens: discrete period=0.1\nA_d = ${JSON.stringify(Ad)}\nB_d = ${JSON.stringify(Bd)}\n`;
+    const back = stateOf(cliJson(src, '.py'));
+    expect(normRelError(back.model.continuousEquivalent.A, [[0, 1], [-4, -2]])).toBeLessThan(1e-12);
+    expect(normRelError(back.model.continuousEquivalent.B, [[0], [1]])).toBeLessThan(1e-12);
+  });
+
+  it('says why there is none for a negative real eigenvalue', () => {
+    // e^{λT} > 0 for real λ, so z = −1/2 is no zero-order hold of a real first-order model (standard fact).
+    const back = stateOf(cliJson('# eigenlens: discrete period=0.1\nA = [[-0.5]]\n', '.py'));
+    expect(back.model.continuousEquivalent.error).toMatch(/negative/);
+  });
+});

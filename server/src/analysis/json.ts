@@ -2,7 +2,7 @@
  * The versioned JSON report of DESIGN.md §6 (version 1). Fields beyond the schema
  * (modes, the closed-form check, diagnostic positions) are additions a reader may ignore.
  */
-import type { DocumentReport, MatrixReport } from './report';
+import type { DocumentReport, MatrixReport, ModelReport } from './report';
 import { lineColumnAt } from './position';
 
 export const JSON_REPORT_VERSION = 1;
@@ -17,7 +17,35 @@ function finite(x: number | null | undefined): number | null {
   return x === null || x === undefined || !Number.isFinite(x) ? null : x;
 }
 
-function matrixJson(m: MatrixReport, text: string) {
+function reach(r: ModelReport['controllability']) {
+  return r ? { rank: r.rank, n: r.n, full: r.controllable, exact: r.exact, missing: r.uncontrollableEigenvalues.map((e) => ({ text: e.text, re: e.re, im: e.im, multiplicity: e.multiplicity })) } : null;
+}
+
+function modelJson(model: ModelReport | undefined) {
+  if (!model) return null;
+  const ce = model.continuousEquivalent;
+  return {
+    id: model.id,
+    controllability: reach(model.controllability),
+    observability: reach(model.observability),
+    sampledControllability: reach(model.sampledControllability),
+    sampledObservability: reach(model.sampledObservability),
+    transferFunction: model.transferFunction
+      ? {
+          variable: model.transferFunction.variable,
+          exact: model.transferFunction.exact,
+          entries: model.transferFunction.entries.map((row) =>
+            row.map((e) => ({ text: e.text, numerator: e.numerator, denominator: e.denominator, poles: e.poles, zeros: e.zeros })),
+          ),
+        }
+      : null,
+    periodAdvice: model.periodAdvice ? { recommended: model.periodAdvice.recommended, findings: model.periodAdvice.findings.map((f) => ({ rule: f.rule, severity: f.severity, message: f.message, source: f.source })) } : null,
+    continuousEquivalent: ce ? (ce.ok ? { A: ce.A, B: ce.B, residual: ce.residual } : { error: ce.reason }) : null,
+    quantization: model.quantization.map((q) => ({ format: q.format, maxMovement: q.maxMovement, maxEquivalentShift: q.maxEquivalentShift, crossedUnitCircle: q.crossedUnitCircle, sensitive: q.sensitive })),
+  };
+}
+
+function matrixJson(m: MatrixReport, text: string, models: ModelReport[]) {
   const spec = m.spectrum;
   return {
     name: m.name,
@@ -26,7 +54,7 @@ function matrixJson(m: MatrixReport, text: string) {
     rows: m.rows,
     cols: m.cols,
     role: m.role,
-    model: m.modelId,
+    modelId: m.modelId,
     domain: m.domain,
     period: m.period,
     exact: m.exact,
@@ -56,6 +84,7 @@ function matrixJson(m: MatrixReport, text: string) {
         }
       : null,
     discrete: m.discrete,
+    model: m.role === 'state' ? modelJson(models.find((x) => x.state === m.index)) : null,
     diagnostics: m.findings.map((f) => ({ code: f.code, severity: f.severity, message: f.message, ...lineColumnAt(text, f.span.start) })),
     skipped: m.skipped,
   };
@@ -67,7 +96,7 @@ export function jsonReport(files: JsonFileInput[]) {
     files: files.map(({ path, text, report }) => ({
       path,
       language: report.language,
-      matrices: report.matrices.map((m) => matrixJson(m, text)),
+      matrices: report.matrices.map((m) => matrixJson(m, text, report.models)),
       diagnostics: report.findings.map((f) => ({ code: f.code, severity: f.severity, message: f.message, ...lineColumnAt(text, f.span.start) })),
     })),
   };

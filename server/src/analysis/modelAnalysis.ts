@@ -10,6 +10,7 @@ import { transferFunction } from '../engine/transferFunction';
 import { samplePeriodAdvice, type PeriodFinding } from '../engine/samplePeriod';
 import { quantizeMatrix, type QuantizationSuccess } from '../engine/quantize';
 import { processNoise } from '../engine/vanLoan';
+import { continuousFromZoh } from '../engine/matrixLog';
 import type { ExtractedFile, MatrixLiteral } from '../syntax/types';
 import type { ModelGroup } from '../model/types';
 import type { Finding, MatrixReport, ModelReport } from './report';
@@ -66,6 +67,7 @@ export function analyseModel(
     sampledObservability: null,
     transferFunction: null,
     periodAdvice: null,
+    continuousEquivalent: null,
     quantization: [],
     notes: [],
   };
@@ -155,6 +157,16 @@ export function analyseModel(
         code: PERIOD_CODE[f.rule] ?? f.rule,
         message: `${f.message} (${f.source})`,
       });
+    }
+  }
+
+  // A discrete model with a known period: which continuous model is it the zero-order hold of?
+  if (domain === 'discrete' && model.period !== null && n <= settings.closedFormMaxN) {
+    const toF = (M: AnyMatrix) => (M as (Rational | number)[][]).map((r) => r.map((x) => (x instanceof Rational ? x.toNumber() : x)));
+    try {
+      out.continuousEquivalent = continuousFromZoh(toF(A), B ? toF(B) : null, model.period);
+    } catch (err) {
+      out.notes.push(`Continuous equivalent: ${(err as Error).message}`);
     }
   }
 

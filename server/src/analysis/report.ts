@@ -8,6 +8,7 @@ import type { ReachabilityResult } from '../engine/controllability';
 import type { TransferFunctionSuccess } from '../engine/transferFunction';
 import type { PeriodAdvice } from '../engine/samplePeriod';
 import type { QuantizationSuccess } from '../engine/quantize';
+import type { ContinuousFromZohResult } from '../engine/matrixLog';
 import type { MatrixRole, Problem, SourceLanguage, Span, EntryValue } from '../syntax/types';
 
 /** A finding with a stable code of ours, at a document range. */
@@ -81,6 +82,11 @@ export interface ModelReport {
   transferFunction: TransferFunctionSuccess | null;
   /** Sample-period advice for a continuous model with a known period. */
   periodAdvice: PeriodAdvice | null;
+  /**
+   * Discrete model with a period: the continuous (A, B) whose zero-order hold it is (a real
+   * principal matrix logarithm), or why none exists (e.g. eigenvalues on the negative real axis).
+   */
+  continuousEquivalent: ContinuousFromZohResult | null;
   /** Float32 (and fixed-point, when set) rounding of the discrete state matrix. */
   quantization: QuantizationSuccess[];
   /** Why any of the above was not computed. */

@@ -112,6 +112,31 @@ function matrixBlock(path: string, text: string, m: MatrixReport, digits: number
   return out;
 }
 
+function modelBlock(report: DocumentReport, m: MatrixReport, digits: number): string[] {
+  const model = report.models.find((x) => x.state === m.index);
+  if (!model) return [];
+  const out: string[] = [];
+  const rank = (label: string, r: { rank: number; n: number; controllable: boolean; uncontrollableEigenvalues: { text: string }[] } | null, word: string, miss: string) => {
+    if (!r) return;
+    out.push(`  ${label}: ${r.controllable ? word : `NOT ${word}`} (rank ${r.rank} of ${r.n})${r.controllable ? '' : `; ${miss} ${r.uncontrollableEigenvalues.map((e) => `λ = ${e.text}`).join(', ')}`}.`);
+  };
+  rank('(A, B)', model.controllability, 'controllable', 'the input cannot move');
+  rank('(A, C)', model.observability, 'observable', 'the outputs do not see');
+  if (model.transferFunction) {
+    const tf = model.transferFunction;
+    for (const row of tf.entries) for (const e of row) out.push(`  ${tf.variable === 's' ? 'G(s)' : 'H(z)'}[${e.output + 1},${e.input + 1}] = ${e.text}`);
+  }
+  const ce = model.continuousEquivalent;
+  if (ce) {
+    if (ce.ok) {
+      out.push(`  Continuous model whose zero-order hold this is (T = ${formatNumber(ce.period, 6)} s):`);
+      out.push(`    A = [${ce.A.map((r) => r.map((x) => formatNumber(x, digits)).join(', ')).join('; ')}]`);
+      if (ce.B) out.push(`    B = [${ce.B.map((r) => r.map((x) => formatNumber(x, digits)).join(', ')).join('; ')}]`);
+    } else out.push(`  No continuous model has this as its zero-order hold: ${ce.reason}`);
+  }
+  return out;
+}
+
 export function textReport(path: string, text: string, report: DocumentReport, digits = 6): string {
   const out: string[] = [];
   out.push(`━━ ${path} (${report.language}): ${report.matrices.length} matri${report.matrices.length === 1 ? 'x' : 'ces'}, ${report.models.length} model${report.models.length === 1 ? '' : 's'}`);
@@ -122,6 +147,7 @@ export function textReport(path: string, text: string, report: DocumentReport, d
   for (const m of report.matrices) {
     out.push('');
     out.push(...matrixBlock(path, text, m, digits));
+    if (m.role === 'state' && m.spectrum) out.push(...modelBlock(report, m, digits));
   }
   return out.join('\n');
 }

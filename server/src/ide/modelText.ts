@@ -129,6 +129,14 @@ export function modelLines(report: DocumentReport, matrix: MatrixReport, precisi
     for (const f of full ? advice.findings : broken) items.push(`  ${f.severity === 'info' ? 'ℹ' : '⚠'} ${f.rule}: ${f.message} (${f.source})`);
     if (full) for (const note of advice.notes) items.push(`  ${note}`);
   }
+  const ce = model.continuousEquivalent;
+  if (ce && full) {
+    const mat = (M: number[][]) => `[${M.map((r) => r.map((x) => formatNumber(x, precision)).join(', ')).join('; ')}]`;
+    if (ce.ok) items.push(`Zero-order hold of the continuous model A = ${mat(ce.A)}${ce.B ? `, B = ${mat(ce.B)}` : ''} (matrix logarithm, residual ${formatNumber(ce.residual, 2)})`);
+    else items.push(`No continuous model has this as its zero-order hold: ${ce.reason}`);
+  } else if (ce && !ce.ok) {
+    items.push(`No continuous model has this as its zero-order hold (${ce.reason.replace(/\.$/, '')})`);
+  }
   for (const q of model.quantization) {
     if (full || q.sensitive) items.push(`Rounding ${matrix.domain === 'discrete' ? a : 'the discrete state matrix'} to ${quantizationText(q, precision)}`);
   }
