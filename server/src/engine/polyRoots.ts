@@ -57,8 +57,14 @@ export function polynomialRoots(coeffs: (Rational | number)[]): Complex[] {
     raw = evd.realEigenvalues.map((re, i) => ({ re, im: evd.imaginaryEigenvalues[i] }));
   }
   const deriv = monic.slice(1).map((x, i) => x * (i + 1));
-  let polished = raw.map((z) => polish(monic, deriv, z)).map((z) => ({ re: z.re * sigma, im: z.im * sigma }));
-  if (exact && deg >= 2) polished = refineSimultaneously(coeffs as Rational[], polished);
+  const scaledRoots = raw.map((z) => polish(monic, deriv, z));
+  let polished = scaledRoots.map((z) => ({ re: z.re * sigma, im: z.im * sigma }));
+  // The high-precision pass is needed only where double precision cannot vouch for a root:
+  // first-order bound 4u·Σ|m_k||t|^k / |p'(t)| (Wilkinson, Rounding Errors in Algebraic
+  // Processes, 1963, ch. 2, from memory) above ~1e-15 relative, i.e. clustered roots.
+  if (exact && deg >= 2 && scaledRoots.some((t) => !(rootErrorBound(monic, deriv, t) <= 1e-15 * Math.hypot(t.re, t.im)))) {
+    polished = refineSimultaneously(coeffs as Rational[], polished);
+  }
   return symmetrize(polished, exact ? realRootCount(coeffs as Rational[]) : null);
 }
 
@@ -242,6 +248,15 @@ function signedRemainder(a: bigint[], b: bigint[]): bigint[] {
 
 function abs2(z: Complex): number {
   return z.re * z.re + z.im * z.im;
+}
+
+function rootErrorBound(p: number[], dp: number[], t: Complex): number {
+  const r = Math.hypot(t.re, t.im);
+  let absSum = 0;
+  for (let k = 0; k < p.length; k++) absSum += Math.abs(p[k]) * r ** k;
+  const d = polyEvalComplex(dp, t);
+  const dn = Math.hypot(d.re, d.im);
+  return dn > 0 ? (4 * 2 ** -53 * absSum) / dn : Number.POSITIVE_INFINITY;
 }
 
 function polish(p: number[], dp: number[], z0: Complex): Complex {
