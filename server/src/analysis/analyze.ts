@@ -44,8 +44,29 @@ export interface MatrixCore {
   notes: string[];
 }
 
+type ModelRole = 'state' | 'input' | 'output' | 'feedthrough' | 'noiseInput' | 'noiseCovariance';
+
+/** A model analysis as cached: its findings are kept relative to the literal they sit on. */
+interface ModelOutcome {
+  report: ModelReport;
+  findings: { role: ModelRole; start: number; end: number; finding: Finding }[];
+}
+
 /** A bounded cache of matrix analyses keyed by content hash (least recently used evicted). */
 export class AnalysisCache {
+  private readonly models = new Map<string, ModelOutcome>();
+  getModel(key: string): ModelOutcome | undefined {
+    const v = this.models.get(key);
+    if (v) {
+      this.models.delete(key);
+      this.models.set(key, v);
+    }
+    return v;
+  }
+  setModel(key: string, v: ModelOutcome): void {
+    this.models.set(key, v);
+    if (this.models.size > this.capacity) this.models.delete(this.models.keys().next().value as string);
+  }
   private readonly map = new Map<string, MatrixCore>();
   hits = 0;
   misses = 0;
@@ -130,9 +151,61 @@ export function analyzeDocument(
   const models: ModelReport[] = [];
   for (const m of grouping.models) {
     if (options.isCancelled?.()) break;
-    models.push(analyseModel(file, m, byIndex, settings));
+    models.push(cachedModelAnalysis(file, m, byIndex, settings, options.cache));
   }
   return { language, matrices, models, findings, incomplete: overBudget > 0 };
+}
+
+const MODEL_ROLES: ModelRole[] = ['state', 'input', 'output', 'feedthrough', 'noiseInput', 'noiseCovariance'];
+
+/**
+ * Model analyses (controllability, transfer function, period advice, rounding) cached by the
+ * state matrix's hash — which already covers the model's other matrices, domain and period —
+ * plus the names used in messages and the settings that only model analysis reads.
+ */
+function cachedModelAnalysis(
+  file: ExtractedFile,
+  model: ModelGroup,
+  reports: Map<number, MatrixReport>,
+  settings: AnalysisSettings,
+  cache: AnalysisCache | undefined,
+): ModelReport {
+  const state = reports.get(model.state);
+  if (!cache || !state) return analyseModel(file, model, reports, settings);
+  const names = MODEL_ROLES.map((r) => (model[r] === null || model[r] === undefined ? '-' : file.matrices[model[r] as number].name ?? '?'));
+  const key = [
+    state.hash,
+    names.join(','),
+    model.id,
+    settings.quantizationThreshold,
+    JSON.stringify(settings.fixedPoint),
+    settings.periodTimeConstantDivisor,
+    settings.periodMinSamplesPerOscillation,
+  ].join('|');
+  let outcome = cache.getModel(key);
+  if (!outcome) {
+    // Run on shadow reports so that the findings it adds can be recorded per role.
+    const shadow = new Map<number, MatrixReport>();
+    for (const [i, r] of reports) shadow.set(i, { ...r, findings: [] });
+    const report = analyseModel(file, model, shadow, settings);
+    const findings: ModelOutcome['findings'] = [];
+    for (const role of MODEL_ROLES) {
+      const idx = model[role];
+      if (idx === null || idx === undefined) continue;
+      const lit = file.matrices[idx as number];
+      for (const f of shadow.get(idx as number)?.findings ?? []) findings.push({ role, start: f.span.start - lit.span.start, end: f.span.end - lit.span.start, finding: f });
+    }
+    outcome = { report, findings };
+    cache.setModel(key, outcome);
+  }
+  for (const { role, start, end, finding } of outcome.findings) {
+    const idx = model[role] as number;
+    const lit = file.matrices[idx];
+    const target = reports.get(idx) ?? state;
+    target.findings.push({ ...finding, span: { start: lit.span.start + start, end: lit.span.start + end } });
+  }
+  // Indices can move when matrices are added above; the cached report carries the current ones.
+  return { ...outcome.report, state: model.state, input: model.input, output: model.output, feedthrough: model.feedthrough };
 }
 
 function entryValues(lit: MatrixLiteral): (EntryValue | null)[][] {
