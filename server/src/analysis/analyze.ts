@@ -28,6 +28,8 @@ import { analyseModel } from './modelAnalysis';
 
 export { DEFAULT_SETTINGS } from './settings';
 
+const BUDGET_SKIP = "Not analysed: the document's time budget";
+
 export async function initAnalysis(opts?: { wasmDir?: string }): Promise<void> {
   await initParsers(opts);
 }
@@ -134,9 +136,11 @@ export function analyzeDocument(
     const lit = file.matrices[index];
     if (lit.pragma?.ignore) continue;
     const model = modelOf.get(index) ?? null;
-    const cached = Date.now() <= deadline;
-    if (!cached) overBudget++;
-    matrices.push(reportForMatrix(text, file, lit, index, model, settings, options.cache, !cached));
+    const report = reportForMatrix(text, file, lit, index, model, settings, options.cache, Date.now() > deadline);
+    // Only matrices actually left unanalysed count (cached ones are always filled in), so a pass
+    // over a fully cached document is complete however long building the reports took.
+    if (report.skipped.some((s) => s.startsWith(BUDGET_SKIP))) overBudget++;
+    matrices.push(report);
   }
   if (overBudget > 0) {
     findings.push({
@@ -186,7 +190,11 @@ function cachedModelAnalysis(
   if (!outcome) {
     // Run on shadow reports so that the findings it adds can be recorded per role.
     const shadow = new Map<number, MatrixReport>();
-    for (const [i, r] of reports) shadow.set(i, { ...r, findings: [] });
+    for (const role of MODEL_ROLES) {
+      const idx = model[role];
+      const r = idx === null || idx === undefined ? undefined : reports.get(idx as number);
+      if (r) shadow.set(idx as number, { ...r, findings: [] });
+    }
     const report = analyseModel(file, model, shadow, settings);
     const findings: ModelOutcome['findings'] = [];
     for (const role of MODEL_ROLES) {
@@ -251,7 +259,7 @@ function reportForMatrix(
   let core = cache?.get(hash);
   if (!core && overBudget && isState) {
     core = emptyCore();
-    core.skipped.push(`Not analysed: the document's time budget of ${settings.timeBudgetMs} ms ran out before this matrix.`);
+    core.skipped.push(`${BUDGET_SKIP} of ${settings.timeBudgetMs} ms ran out before this matrix.`);
   } else if (!core) {
     core = isState ? analyseStateMatrix(lit, values, domain, period, settings, file, model) : emptyCore();
     cache?.set(hash, core);

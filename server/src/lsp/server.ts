@@ -94,6 +94,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   const reports = new Map<string, CachedReport>();
   const settingsCache = new Map<string, Promise<IdeSettings>>();
   const timers = new Map<string, NodeJS.Timeout>();
+  /** Documents whose next diagnostics pass continues an incomplete one (full budget). */
+  const continuations = new Set<string>();
   let canPullConfiguration = false;
   let canRegisterConfigurationChange = false;
   let pushedSettings: IdeSettings = DEFAULT_IDE_SETTINGS;
@@ -166,7 +168,11 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   async function publishDiagnostics(uri: string): Promise<void> {
     const doc = documents.get(uri);
     if (!doc) return;
-    const result = await reportFor(doc, undefined, DIAGNOSTIC_SLICE_MS);
+    // The first pass after a change is a short slice so that something shows quickly; the
+    // passes that continue it get the full budget (each pass has a fixed cost of its own).
+    const continuing = continuations.has(uri);
+    continuations.delete(uri);
+    const result = await reportFor(doc, undefined, continuing ? undefined : DIAGNOSTIC_SLICE_MS);
     const latest = documents.get(uri);
     // A newer version arrived while we waited: its own debounce will publish.
     if (!result || !latest || latest.version !== doc.version) return;
@@ -174,7 +180,10 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
     // Big documents are analysed in slices: publish what is known, then continue (the matrix
     // cache keeps every finished matrix, so each pass gets further) until the report is complete.
-    if (result.report.incomplete) scheduleDiagnostics(uri, 0);
+    if (result.report.incomplete) {
+      continuations.add(uri);
+      scheduleDiagnostics(uri, 0);
+    }
   }
 
   function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
@@ -232,6 +241,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   });
   documents.onDidChangeContent((e) => {
     if (justOpened.delete(e.document.uri)) return;
+    continuations.delete(e.document.uri);
     scheduleDiagnostics(e.document.uri);
   });
   documents.onDidClose(
