@@ -94,8 +94,6 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   const reports = new Map<string, CachedReport>();
   const settingsCache = new Map<string, Promise<IdeSettings>>();
   const timers = new Map<string, NodeJS.Timeout>();
-  /** Documents whose next diagnostics pass continues an incomplete one (full budget). */
-  const continuations = new Set<string>();
   let canPullConfiguration = false;
   let canRegisterConfigurationChange = false;
   let pushedSettings: IdeSettings = DEFAULT_IDE_SETTINGS;
@@ -137,11 +135,17 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   }
 
   /** The report for the document's current version, computed at most once per version and settings. */
+  /**
+   * `request` (hovers, lenses, actions): the latest report of this version, even one a slice left
+   * incomplete (its unfinished matrices say so; the diagnostics passes keep finishing them).
+   * `slice` (diagnostics passes): analyse within DIAGNOSTIC_SLICE_MS, continuing an incomplete report.
+   */
   async function reportFor(
     doc: TextDocument,
     token?: CancellationToken,
-    sliceMs?: number,
+    pass: 'request' | 'slice' = 'request',
   ): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
+    const sliceMs = pass === 'slice' ? DIAGNOSTIC_SLICE_MS : undefined;
     await ready;
     const language = languageOf(doc);
     if (!language) return null;
@@ -149,9 +153,9 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const current = documents.get(doc.uri);
     if (!current || current.version !== doc.version || token?.isCancellationRequested) return null;
     const cached = reports.get(doc.uri);
-    // An incomplete report (its time budget ran out) is never reused: the next call continues
-    // the work, with the matrix cache keeping everything already finished.
-    if (cached && cached.version === doc.version && cached.settings === settings && !cached.report.incomplete) {
+    // An incomplete report (its time budget ran out) is reused only by requests: a diagnostics
+    // pass continues the work, with the matrix cache keeping everything already finished.
+    if (cached && cached.version === doc.version && cached.settings === settings && (!cached.report.incomplete || pass === 'request')) {
       return { report: cached.report, settings };
     }
     // Diagnostics passes run in slices; hovers and actions get the document's full budget.
@@ -168,11 +172,10 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   async function publishDiagnostics(uri: string): Promise<void> {
     const doc = documents.get(uri);
     if (!doc) return;
-    // The first pass after a change is a short slice so that something shows quickly; the
-    // passes that continue it get the full budget (each pass has a fixed cost of its own).
-    const continuing = continuations.has(uri);
-    continuations.delete(uri);
-    const result = await reportFor(doc, undefined, continuing ? undefined : DIAGNOSTIC_SLICE_MS);
+    // Every pass is a short slice, so that something shows quickly and requests (which use the
+    // latest report) never wait long behind a pass; extraction is incremental, so a pass's fixed
+    // cost is small.
+    const result = await reportFor(doc, undefined, 'slice');
     const latest = documents.get(uri);
     // A newer version arrived while we waited: its own debounce will publish.
     if (!result || !latest || latest.version !== doc.version) return;
@@ -180,10 +183,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
     // Big documents are analysed in slices: publish what is known, then continue (the matrix
     // cache keeps every finished matrix, so each pass gets further) until the report is complete.
-    if (result.report.incomplete) {
-      continuations.add(uri);
-      scheduleDiagnostics(uri, 0);
-    }
+    if (result.report.incomplete) scheduleDiagnostics(uri, 0);
   }
 
   function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
@@ -241,7 +241,6 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   });
   documents.onDidChangeContent((e) => {
     if (justOpened.delete(e.document.uri)) return;
-    continuations.delete(e.document.uri);
     scheduleDiagnostics(e.document.uri);
   });
   documents.onDidClose(
