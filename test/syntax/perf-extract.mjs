@@ -3,7 +3,7 @@
 // edit inside one matrix followed by extract. Prints medians; asserts nothing (timings
 // depend on the machine's load, which is printed beside them).
 // Run from the repository root: node test/syntax/perf-extract.mjs [--runs 15]
-import { build } from 'esbuild';
+import { bundleEntry } from '../support/bundleEntry.mjs';
 import { createRequire } from 'node:module';
 import { join, dirname } from 'node:path';
 import { fileURLToPath, pathToFileURL } from 'node:url';
@@ -15,22 +15,7 @@ const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const runsArg = process.argv.indexOf('--runs');
 const runs = runsArg > 0 ? Number(process.argv[runsArg + 1]) : 15;
 
-const outfile = join(root, 'dist', 'perf-extract.cjs');
-await build({
-  stdin: {
-    contents: `export { extract, initParsers, clearExtractCaches } from './server/src/syntax/extract';`,
-    resolveDir: root,
-    loader: 'ts',
-    sourcefile: 'perf-extract-entry.ts',
-  },
-  bundle: true,
-  platform: 'node',
-  format: 'cjs',
-  target: 'node20',
-  logLevel: 'warning',
-  outfile,
-  alias: { 'web-tree-sitter': require.resolve('web-tree-sitter').replace(/\.js$/, '.cjs') },
-});
+const outfile = await bundleEntry(root, `export { extract, initParsers, clearExtractCaches } from './server/src/syntax/extract';`, 'perf-extract.cjs');
 const syntax = require(outfile);
 await syntax.initParsers();
 
