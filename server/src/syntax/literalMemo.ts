@@ -191,14 +191,14 @@ export class LiteralMemo {
     }
 
     this.stats.misses++;
-    const recording = new RecordingScope(scope);
+    const tracked = new RecordingScope(scope);
     const local: Problem[] = [];
-    const matrix = buildMatrix(text, lang, recording, { ...rest, top: top() }, local);
+    const matrix = buildMatrix(text, lang, tracked, { ...rest, top: top() }, local);
     problems.push(...local);
-    if (!recording.wholeScopeRead) {
+    if (!tracked.wholeScopeRead) {
       if (found) this.forget(key, found);
       const entry: MemoEntry = {
-        reads: [...recording.reads],
+        reads: [...tracked.reads],
         matrix: matrix ? moved(matrix, -base, null) : null,
         problems: movedProblems(local, -base),
         size: key.length,
