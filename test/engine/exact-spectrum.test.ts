@@ -288,3 +288,21 @@ describe('building blocks', () => {
     expect(closeTo(quadraticNumberValue(small).re, 1.0000000000000001e-8)).toBe(true);
   });
 });
+
+describe('regressions found by fuzzing', () => {
+  it('a zero eigenvalue is split off exactly, even among entries of size 10^12', async () => {
+    // det(xI − A) of a matrix with a zero row has the factor x (expansion along that row).
+    const { Rational } = await import('../../server/src/engine/rational');
+    const q = (s: string) => {
+      const [a, b] = s.split('/');
+      return Rational.of(BigInt(a), BigInt(b ?? '1'));
+    };
+    const A = [['-143/500', '4', '26', '-8'], ['-3000000000000', '2', '-14/17', '-8'], ['0', '0', '0', '0'], ['2000000000000', '-5000000000000', '3/500000000000', '-6000000000000']].map((r) => r.map(q));
+    const s = exactSpectrum(A);
+    expect(s.factors!.some((f) => f.degree === 1 && f.coeffs[0].isZero())).toBe(true);
+    // Vieta: the eigenvalues sum to the trace.
+    const trace = -143 / 500 + 2 + 0 - 6000000000000;
+    const sum = s.eigenvalues.reduce((acc, e) => acc + e.algebraic * e.re, 0);
+    expect(Math.abs(sum - trace) / 6e12).toBeLessThan(1e-14);
+  });
+});

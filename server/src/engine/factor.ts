@@ -41,7 +41,16 @@ export interface FactorPower {
 
 /** Monic irreducible factors with exponents; a constant polynomial has none. */
 export function factorOverQ(p: PolyQ): FactorPower[] {
-  const monic = polyMonic(polyTrim(p));
+  const trimmed = polyTrim(p);
+  // x^k divides p exactly when its k lowest coefficients vanish: split that off first, so a
+  // zero root never depends on numeric root finding (a tiny computed root once hid one).
+  let k = 0;
+  while (k < trimmed.length - 1 && trimmed[k].isZero()) k++;
+  if (k > 0) {
+    const rest = factorOverQ(trimmed.slice(k));
+    return [{ factor: [Rational.ZERO, Rational.ONE], multiplicity: k }, ...rest];
+  }
+  const monic = polyMonic(trimmed);
   const n = polyDegree(monic);
   if (n < 1) return [];
   const L = scaleToMonicInteger(monic);

@@ -62,7 +62,9 @@ export function polynomialRoots(coeffs: (Rational | number)[]): Complex[] {
   // The high-precision pass is needed only where double precision cannot vouch for a root:
   // first-order bound 4u·Σ|m_k||t|^k / |p'(t)| (Wilkinson, Rounding Errors in Algebraic
   // Processes, 1963, ch. 2, from memory) above ~1e-15 relative, i.e. clustered roots.
-  if (exact && deg >= 2 && scaledRoots.some((t) => !(rootErrorBound(monic, deriv, t) <= 1e-15 * Math.hypot(t.re, t.im)))) {
+  // The bound assumes a coefficient-wise backward error; the companion QR's is norm-wise, so
+  // Vieta's formulas (sum and product of the roots against the coefficients) are checked too.
+  if (exact && deg >= 2 && (scaledRoots.some((t) => !(rootErrorBound(monic, deriv, t) <= 1e-15 * Math.hypot(t.re, t.im))) || !vietaConsistent(monic, scaledRoots))) {
     polished = refineSimultaneously(coeffs as Rational[], polished);
   }
   return symmetrize(polished, exact ? realRootCount(coeffs as Rational[]) : null);
@@ -248,6 +250,23 @@ function signedRemainder(a: bigint[], b: bigint[]): bigint[] {
 
 function abs2(z: Complex): number {
   return z.re * z.re + z.im * z.im;
+}
+
+/** Σt = −m_{d−1} and Πt = (−1)^d·m_0 to about 1e-14 relative (Vieta; m monic, scaled). */
+function vietaConsistent(m: number[], roots: Complex[]): boolean {
+  const d = m.length - 1;
+  let sumRe = 0;
+  let absSum = 0;
+  let prod: Complex = { re: 1, im: 0 };
+  for (const t of roots) {
+    sumRe += t.re;
+    absSum += Math.hypot(t.re, t.im);
+    prod = { re: prod.re * t.re - prod.im * t.im, im: prod.re * t.im + prod.im * t.re };
+  }
+  const sumOk = Math.abs(sumRe + m[d - 1]) <= 1e-14 * Math.max(absSum, Math.abs(m[d - 1]), Number.MIN_VALUE);
+  const target = (d % 2 === 0 ? 1 : -1) * m[0];
+  const prodOk = Math.abs(prod.re - target) <= 1e-13 * Math.abs(target) && Math.abs(prod.im) <= 1e-13 * Math.abs(target);
+  return sumOk && prodOk;
 }
 
 function rootErrorBound(p: number[], dp: number[], t: Complex): number {
