@@ -196,3 +196,11 @@ describe('expm input handling', () => {
     expect(relativeError(matmul(half, half), expm(A))).toBeLessThanOrEqual(1e-11);
   });
 });
+
+describe('regressions found by fuzzing', () => {
+  it('a norm beyond the double range is refused instead of squaring forever', async () => {
+    // ‖A‖₁ = 1e308 + 1e308 overflows to Infinity (IEEE 754), so no finite number of squarings exists.
+    const { expm } = await import('../../server/src/engine/expm');
+    expect(() => expm([[1e308, 1e308], [1e308, 1e308]])).toThrow(RangeError);
+  });
+});

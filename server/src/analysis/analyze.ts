@@ -28,6 +28,9 @@ import { analyseModel } from './modelAnalysis';
 
 export { DEFAULT_SETTINGS } from './settings';
 
+/** Largest |entry| analysed: leaves about 150 decades of headroom for products and exponentials. */
+export const MAX_ENTRY_MAGNITUDE = 1e150;
+
 const BUDGET_SKIP = "Not analysed: the document's time budget";
 
 export async function initAnalysis(opts?: { wasmDir?: string }): Promise<void> {
@@ -331,6 +334,12 @@ function analyseStateMatrix(
   }
   if (values.some((r) => r.some((v) => v === null))) {
     core.skipped.push('Some entries could not be evaluated; fix them to see the analysis.');
+    return core;
+  }
+  // Magnitudes near the double range leave no room for e^{At}, balancing or rank decisions
+  // (products overflow); such models are refused with a note rather than analysed into noise.
+  if (values.some((r) => r.some((v) => Math.abs(v!.kind === 'exact' ? v!.value.toNumber() : v!.value) > MAX_ENTRY_MAGNITUDE))) {
+    core.skipped.push(`An entry exceeds ${MAX_ENTRY_MAGNITUDE.toExponential(0)} in magnitude; double precision cannot analyse this matrix meaningfully (rescale the model's units).`);
     return core;
   }
   if (n > settings.numericMaxN) {

@@ -91,6 +91,11 @@ export function analyseModel(
   const C = fits(lits.C, null, n) ? matrixOf(lits.C, useExact) : null;
   const D = B && C && fits(lits.D, C.length, B[0].length) ? matrixOf(lits.D, useExact) : null;
   if (!A) return out;
+  const huge = (M: AnyMatrix | null) => M !== null && (M as (Rational | number)[][]).some((r) => r.some((x) => Math.abs(x instanceof Rational ? x.toNumber() : x) > 1e150));
+  if ([B, C, D].some(huge)) {
+    out.notes.push('An entry of B, C or D exceeds 1e150 in magnitude; the model analysis was skipped (rescale the units).');
+    return out;
+  }
   const domain = stateReport.domain;
   const label = stateReport.name ?? 'the state matrix';
 

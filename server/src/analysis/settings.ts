@@ -49,7 +49,7 @@ export const DEFAULT_SETTINGS: AnalysisSettings = {
   exactMaxN: 12,
   closedFormMaxN: 12,
   numericMaxN: 200,
-  exactMaxDigits: 400,
+  exactMaxDigits: 64,
   lightDampingThreshold: 0.1,
   nearRepeatThreshold: 1e-6,
   stateMatrixNames: [],

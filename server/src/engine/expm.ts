@@ -353,6 +353,8 @@ function expmFlat(A: Flat, n: number): Flat {
       // d_k ≤ ‖A‖₁ always, so ‖A‖₁ is a safe stand-in when a power overflowed.
       let eta5 = Math.min(eta3, eta4);
       if (!Number.isFinite(eta5)) eta5 = norm1(A, n);
+      // A norm beyond the double range would ask for infinitely many squarings.
+      if (!Number.isFinite(eta5)) throw new RangeError('expm: the matrix norm overflows double precision');
       squarings = Math.max(Math.ceil(Math.log2(eta5 / THETA[13])), 0);
       squarings += extraScalings(A, n, 13, 2 ** -squarings);
       const c = 2 ** -squarings;
