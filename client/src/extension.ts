@@ -25,6 +25,8 @@ import {
   Commands,
   DiscretizeRequestMethod,
   ReportRequestMethod,
+  TransitionTextRequestMethod,
+  type TransitionTextRequestResult,
   SETTINGS_SECTION,
   type CCodeRequestParams,
   type CCodeRequestResult,
@@ -57,8 +59,8 @@ export async function activate(context: vscode.ExtensionContext): Promise<void> 
     vscode.commands.registerCommand(ClientCommands.showFullAnalysis, (uri?: unknown, matrixIndex?: unknown) =>
       guarded('Show Full Analysis', () => showReport(uri, matrixIndex)),
     ),
-    vscode.commands.registerCommand(ClientCommands.copyTransitionMatrix, (text?: unknown) =>
-      guarded('Copy Transition Matrix', () => copyTransition(text)),
+    vscode.commands.registerCommand(ClientCommands.copyTransitionMatrix, (...args: unknown[]) =>
+      guarded('Copy Transition Matrix', () => copyTransition(args)),
     ),
     vscode.commands.registerCommand(ClientCommands.switchDomain, () => guarded('Switch Continuous/Discrete', switchDomain)),
     vscode.commands.registerCommand(ClientCommands.discretizeAtPeriod, () => guarded('Discretize at Period', discretize)),
@@ -146,19 +148,23 @@ async function showReport(uriArg?: unknown, matrixIndexArg?: unknown): Promise<v
   }
 }
 
-async function copyTransition(textArg?: unknown): Promise<void> {
-  let text = typeof textArg === 'string' ? textArg : undefined;
+/** Lens: [uri, matrixIndex]; palette: the matrix at the cursor; a single string is copied as it is. */
+async function copyTransition(args: unknown[]): Promise<void> {
+  let text = args.length === 1 && typeof args[0] === 'string' ? args[0] : undefined;
   if (text === undefined) {
-    const editor = supportedEditor();
-    if (!editor) return;
-    const found = await matrixAtCursor(editor);
-    const lens = found?.lenses.find((l) => l.command?.command === Commands.copyTransitionMatrix);
-    const arg = lens?.command?.arguments?.[0];
-    if (typeof arg !== 'string') {
-      void vscode.window.showInformationMessage('eigenlens: no closed-form transition matrix for the matrix at the cursor.');
+    let target: { uri: string; matrixIndex: number } | undefined;
+    if (typeof args[0] === 'string' && typeof args[1] === 'number') target = { uri: args[0], matrixIndex: args[1] };
+    else {
+      const editor = supportedEditor();
+      if (!editor) return;
+      target = await matrixAtCursor(editor);
+    }
+    const result = target && client ? await client.sendRequest<TransitionTextRequestResult>(TransitionTextRequestMethod, target) : undefined;
+    if (!result?.text) {
+      void vscode.window.showInformationMessage(`eigenlens: ${result?.error ?? 'no closed-form transition matrix for the matrix at the cursor.'}`);
       return;
     }
-    text = arg;
+    text = result.text;
   }
   await vscode.env.clipboard.writeText(text);
   vscode.window.setStatusBarMessage('eigenlens: transition matrix copied', 3000);
@@ -273,7 +279,7 @@ const OUR_LENS_COMMANDS = new Set<string>([Commands.showFullAnalysis, Commands.s
 /** Lens argument lists start with [uri, matrixIndex] for report and domain commands. */
 function lensMatrixIndex(lens: vscode.CodeLens): number | undefined {
   const args = lens.command?.arguments;
-  if (!args || lens.command?.command === Commands.copyTransitionMatrix) return undefined;
+  if (!args) return undefined;
   return typeof args[1] === 'number' ? args[1] : undefined;
 }
 
@@ -291,10 +297,7 @@ async function matrixAtCursor(editor: vscode.TextEditor): Promise<MatrixAtCursor
     ? above.reduce((a, b) => (b.range.start.line > a.range.start.line ? b : a))
     : indexed.reduce((a, b) => (b.range.start.line < a.range.start.line ? b : a));
   const matrixIndex = lensMatrixIndex(chosen)!;
-  // A copy lens carries text, not an index: it belongs to the matrix when it sits on the same line.
-  const sameMatrix = ours.filter(
-    (l) => lensMatrixIndex(l) === matrixIndex || (lensMatrixIndex(l) === undefined && l.range.start.line === chosen.range.start.line),
-  );
+  const sameMatrix = ours.filter((l) => lensMatrixIndex(l) === matrixIndex);
   return { uri: uri.toString(), matrixIndex, lenses: sameMatrix };
 }
 

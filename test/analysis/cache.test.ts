@@ -32,3 +32,51 @@ describe('analysis cache', () => {
     expect(b.text).toBe('[[1], [0]]');
   });
 });
+
+describe('closed forms built on demand', () => {
+  // Moler & Van Loan 1978 ("Nineteen dubious ways", the [[−49, 24], [−64, 31]] example):
+  // e^{A} ≈ [[−0.735759, 0.551819], [−1.471518, 1.103638]] (CHECKS.md #1). A Jordan block
+  // [[−1, 1], [0, −1]] gives e^{At} = e^{−t}[[1, t], [0, 1]] (standard).
+  const text = 'A1 = [[-49, 24], [-64, 31]]\nA2 = [[-1, 1], [0, -1]]\nA3 = [[0, 1], [-4, 0]]\n';
+  const value = (m: { transition: import('../../server/src/engine/types').TransitionClosedForm | null }, t: number) =>
+    m.transition!.entries.map((row) =>
+      row.map((terms) => terms.reduce((s, term) => ('rate' in term ? s + term.coef * t ** term.power * Math.exp(term.rate * t) * (term.wave === 'cos' ? Math.cos(term.freq * t) : Math.sin(term.freq * t)) : s), 0)),
+    );
+
+  it('the analysis checks every closed form but keeps only as many terms as the store allows', () => {
+    const cache = new AnalysisCache(2000, 1);
+    const report = analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache });
+    // Every check ran during the analysis (three builds), yet the store held on to one closed form.
+    expect(cache.closedForms.builds).toBe(3);
+    expect(cache.closedForms.size).toBe(1);
+    expect(report.incomplete).toBe(false);
+    // Reading an evicted closed form rebuilds it, with the published values.
+    const [a1, a2] = report.matrices;
+    const e1 = value(a1, 1);
+    expect(cache.closedForms.builds).toBe(4);
+    [[-0.735759, 0.551819], [-1.471518, 1.103638]].forEach((row, r) => row.forEach((x, c) => expect(e1[r][c]).toBeCloseTo(x, 5)));
+    const e2 = value(a2, 2);
+    expect(e2[0][1]).toBeCloseTo(2 * Math.exp(-2), 12);
+    // A copy of a report does not build anything.
+    const before = cache.closedForms.builds;
+    const copy = { ...report.matrices[2] };
+    expect(cache.closedForms.builds).toBe(before);
+    expect('transition' in copy).toBe(false);
+    expect(report.matrices[2].closedFormAvailable).toBe(true);
+  });
+
+  it('a pass whose budget runs out leaves checks for the next pass and says so', () => {
+    const cache = new AnalysisCache();
+    // Stop after the verdicts: isCancelled is asked once per matrix before its analysis, then
+    // before each check, so answering "go on" three times lets exactly the verdicts through.
+    let asked = 0;
+    const first = analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache, isCancelled: () => ++asked > 3 });
+    expect(first.matrices.every((m) => m.stability !== null)).toBe(true);
+    expect(first.incomplete).toBe(true);
+    expect(first.findings.find((f) => f.code === 'analysis-limit')?.message).toMatch(/not yet checked/);
+    expect(cache.closedForms.builds).toBe(0);
+    const next = analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache });
+    expect(next.incomplete).toBe(false);
+    expect(cache.closedForms.builds).toBe(3);
+  });
+});

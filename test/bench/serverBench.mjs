@@ -250,7 +250,7 @@ function out_stderr(session, log) {
 }
 
 /** A fresh server opens ten generated files (five Python, five TypeScript); memory after all diagnostics. */
-async function memoryRun(root, { log }) {
+export async function memoryRun(root, { log }) {
   const session = await new ServerSession(root).start();
   try {
     const t0 = performance.now();
@@ -271,6 +271,9 @@ async function memoryRun(root, { log }) {
     await new Promise((r) => setTimeout(r, 500));
     const mem = memoryOf(session.proc.pid);
     mem.serverCpuSeconds = cpuSecondsOf(session.proc.pid);
+    // The server's own split: JS heap, memory outside it (tree-sitter's WASM heap), caches.
+    mem.serverStats = await session.conn.sendRequest('eigenlens/stats', { collectGarbage: true }).catch(() => null);
+    if (mem.serverStats) log(`server memory split: ${JSON.stringify(mem.serverStats)}`);
     log(`server memory: ${mem.rssMB?.toFixed(1)} MB resident after ten files (peak ${mem.peakRssMB?.toFixed(1)} MB), all diagnostics in ${allDiagnosticsMs.toFixed(0)} ms`);
     return { files: 10, allDiagnosticsMs, afterFirstPass, ...mem };
   } finally {

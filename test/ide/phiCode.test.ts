@@ -33,7 +33,7 @@ function pythonDocument(A: number[][], transition: TransitionClosedForm, name = 
   const statement = `${name} = ${literal}`;
   const text = `${head}${statement}  # invented example\nprint("done")\n`;
   const start = head.length;
-  const matrix = matrixReport(name, A, { start, end: start + statement.length }, { start: start + name.length + 3, end: start + statement.length }, { transition });
+  const matrix = matrixReport(name, A, { start, end: start + statement.length }, { start: start + name.length + 3, end: start + statement.length }, { transition, domain: transition.variable === 'k' ? 'discrete' : 'continuous' });
   return { text, matrix };
 }
 
@@ -41,7 +41,7 @@ function tsDocument(A: number[][], transition: TransitionClosedForm, language: C
   const statement = `const A${language === 'typescript' ? ': number[][]' : ''} = ${JSON.stringify(A)};`;
   const text = `// invented example\n${statement}\nexport {};\n`;
   const start = '// invented example\n'.length;
-  const matrix = matrixReport('A', A, { start, end: start + statement.length }, { start: start + statement.indexOf('['), end: start + statement.length - 1 }, { transition });
+  const matrix = matrixReport('A', A, { start, end: start + statement.length }, { start: start + statement.indexOf('['), end: start + statement.length - 1 }, { transition, domain: transition.variable === 'k' ? 'discrete' : 'continuous' });
   return { text, matrix };
 }
 

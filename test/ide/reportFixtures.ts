@@ -41,6 +41,8 @@ export function matrixReport(name: string, A: number[][], statement: { start: nu
     skipped: [],
     hash: name,
     ...partial,
+    // As the analysis sets it: a closed form is available exactly when one is given.
+    closedFormAvailable: partial.closedFormAvailable ?? (partial.transition !== undefined && partial.transition !== null),
   };
 }
 

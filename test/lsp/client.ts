@@ -29,7 +29,8 @@ export interface TestClient {
   shutdown(): Promise<void>;
 }
 
-export async function startClient(settings: Record<string, unknown> = {}): Promise<TestClient> {
+/** `resolveActionEdits`: declare codeAction/resolve support for `edit`, as VS Code does. */
+export async function startClient(settings: Record<string, unknown> = {}, options: { resolveActionEdits?: boolean } = {}): Promise<TestClient> {
   const serverPath = join(process.cwd(), 'dist', 'server.js');
   const child = spawn(process.execPath, [serverPath, '--stdio'], { stdio: ['pipe', 'pipe', 'pipe'] });
   const stderr: string[] = [];
@@ -123,7 +124,10 @@ export async function startClient(settings: Record<string, unknown> = {}): Promi
       textDocument: {
         hover: { contentFormat: ['markdown', 'plaintext'] },
         publishDiagnostics: { versionSupport: true },
-        codeAction: { codeActionLiteralSupport: { codeActionKind: { valueSet: ['quickfix', 'refactor', 'refactor.rewrite', 'source'] } } },
+        codeAction: {
+          codeActionLiteralSupport: { codeActionKind: { valueSet: ['quickfix', 'refactor', 'refactor.rewrite', 'source'] } },
+          ...(options.resolveActionEdits ? { dataSupport: true, resolveSupport: { properties: ['edit'] } } : {}),
+        },
       },
     },
     workspaceFolders: null,

@@ -232,6 +232,25 @@ describe('code lenses and commands', () => {
     expect(lenses.map((l) => l.command?.command)).toEqual(['eigenlens.showFullAnalysis', 'eigenlens.copyTransitionMatrix', 'eigenlens.server.switchDomain']);
   });
 
+  it('copy Φ(t) names the matrix; eigenlens/transitionText builds the text on demand', async () => {
+    const { uri } = await openFixture('hover_two_modes.py');
+    const copy = (await lensesOf(uri)).find((l) => l.command?.command === 'eigenlens.copyTransitionMatrix')!;
+    expect(copy.command!.title).toBe('copy Φ(t)');
+    expect(copy.command!.arguments).toEqual([uri, 0]);
+    const [, matrixIndex] = copy.command!.arguments as [string, number];
+    const result = (await client.connection.sendRequest('eigenlens/transitionText', { uri, matrixIndex })) as { text: string | null; error: string | null };
+    // Moler & Van Loan 1978: the eigenvalues of [[−49, 24], [−64, 31]] are −1 and −17, so every
+    // entry is a combination of e^(−t) and e^(−17t); ASCII minus signs for pasting into code.
+    expect(result.error).toBeNull();
+    expect(result.text!.split('\n')[0]).toMatch(/^Φ\(t\) = e\^\(A·t\)/);
+    expect(result.text).toContain('e^(-17t)');
+    expect(result.text).toContain('e^(-t)');
+    expect(result.text).not.toContain('−');
+    const missing = (await client.connection.sendRequest('eigenlens/transitionText', { uri, matrixIndex: 99 })) as { text: string | null; error: string | null };
+    expect(missing.text).toBeNull();
+    expect(missing.error).toMatch(/No closed-form/);
+  });
+
   it('unstable model file lens names the growing mode', async () => {
     const lenses = await checkLenses('hover_wheel.lti');
     expect(lenses[0].command?.title).toBe('⚠ unstable: λ ≈ 10.7 doubles every 64.8 ms');
@@ -306,6 +325,32 @@ print(float(np.max(np.abs(ns['phi_A'](0.7) - ref)) / max(1.0, float(np.max(np.ab
     const twice = applyAction(after, regenerate!);
     expect(twice.match(/def phi_A\(/g)).toHaveLength(1);
     expect(twice).toBe(after);
+  });
+
+  it('a client that resolves edits gets the Φ(t) actions without edits, and codeAction/resolve fills in the same edit', async () => {
+    const lazy = await startClient({}, { resolveActionEdits: true });
+    try {
+      const { text, cursor } = readFixture('action_phi.py');
+      const uri = `file:///fixtures/${opened++}/action_phi.py`;
+      await lazy.open(uri, 'python', text);
+      const position = positionAt(text, cursor);
+      const request = { textDocument: { uri }, range: { start: position, end: position }, context: { diagnostics: [] } };
+      const deferred = (await lazy.connection.sendRequest('textDocument/codeAction', request)) as CodeAction[];
+      const insert = deferred.find((a) => /^Insert Φ\(t\) of A/.test(a.title))!;
+      expect(insert.edit).toBeUndefined();
+      expect(insert.data).toBeDefined();
+      const every = deferred.find((a) => a.kind === 'source.eigenlens.insertAllTransitions')!;
+      expect(every.edit).toBeUndefined();
+      const resolved = (await lazy.connection.sendRequest('codeAction/resolve', insert)) as CodeAction;
+      // The eager answer of a client without resolve support is the reference.
+      const { uri: eagerUri } = await openFixture('action_phi.py');
+      const eager = (await actionsAt(eagerUri, text, cursor)).find((a) => a.title === insert.title)!;
+      const edits = (a: CodeAction) => (a.edit!.documentChanges![0] as TextDocumentEdit).edits;
+      expect(edits(resolved)).toEqual(edits(eager));
+      expect(applyTextEdits(text, edits(resolved) as never)).toContain('def phi_A(t):');
+    } finally {
+      await lazy.shutdown();
+    }
   });
 
   it('insert Φ(t) in TypeScript: type-checks and matches scipy expm at t = 0.7', async () => {

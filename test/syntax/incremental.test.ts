@@ -157,6 +157,20 @@ describe('incremental extraction equals extraction from scratch', () => {
     expect(changed.map((m) => m.name)).toEqual([`A11`]);
   });
 
+  it('an unchanged text is served from its extraction: no parse, no walk, the same result', () => {
+    const { text } = generateSourceFile(6, 'typescript', { lines: 300, count: 20 });
+    const first = extract(text, 'typescript');
+    const before = extractCacheStats();
+    // A copy of the string (not the same object), as a new version with the same text would be.
+    const again = extract(text.split('').join(''), 'typescript');
+    const after = extractCacheStats();
+    expect(again).toBe(first);
+    expect(after.parses.unchangedExtractions).toBe(before.parses.unchangedExtractions + 1);
+    expect(after.parses.full + after.parses.incremental + after.parses.unchanged).toBe(before.parses.full + before.parses.incremental + before.parses.unchanged);
+    // Other state-matrix names are another extraction.
+    expect(extract(text, 'typescript', { stateMatrixNames: ['^M\\d+$'] })).not.toBe(first);
+  });
+
   it('many documents in turn (more than the cache keeps) and cleared caches still extract correctly', () => {
     const texts = Array.from({ length: 12 }, (_, k) => generateSourceFile(100 + k, 'python', { lines: 120, count: 8 }).text);
     for (let round = 0; round < 2; round++) {

@@ -14,7 +14,7 @@ import { exactSpectrum } from '../engine/spectrumExact';
 import { floatSpectrum } from '../engine/spectrumFloat';
 import { stabilityOf } from '../engine/stability';
 import { modesOf } from '../engine/modes';
-import { transitionClosedForm } from '../engine/closedForm';
+import { ClosedFormSlot, ClosedFormStore } from './closedFormSlot';
 import { extract, initParsers } from '../syntax/extract';
 import { groupModels } from '../model/group';
 import type { ExtractedFile, MatrixLiteral, SourceLanguage, EntryValue } from '../syntax/types';
@@ -43,7 +43,8 @@ export interface MatrixCore {
   stability: Stability | null;
   stabilityReasons: string[];
   modes: MatrixReport['modes'];
-  transition: MatrixReport['transition'];
+  /** The closed form, built on first use (null over the size cap or without a spectrum). */
+  closedForm: ClosedFormSlot | null;
   discrete: DiscreteModel | null;
   skipped: string[];
   notes: string[];
@@ -73,9 +74,22 @@ export class AnalysisCache {
     if (this.models.size > this.capacity) this.models.delete(this.models.keys().next().value as string);
   }
   private readonly map = new Map<string, MatrixCore>();
+  /** Full closed forms, bounded by their terms; matrix cores keep only the summaries. */
+  readonly closedForms: ClosedFormStore;
   hits = 0;
   misses = 0;
-  constructor(private readonly capacity = 2000) {}
+  /**
+   * Capacity: more analyses than the open documents of a heavy session hold (ten 300-matrix
+   * files, or one file of 10,000 one-line matrices). A smaller cache than the open documents
+   * need thrashes: every pass over one document evicts another's and recomputes it. The
+   * analyses of open documents are referenced by their reports anyway, so this costs little.
+   */
+  constructor(
+    private readonly capacity = 12_000,
+    closedFormTerms?: number,
+  ) {
+    this.closedForms = new ClosedFormStore(closedFormTerms);
+  }
   get(key: string): MatrixCore | undefined {
     const v = this.map.get(key);
     if (v) {
@@ -134,23 +148,39 @@ export function analyzeDocument(
   const deadline = Date.now() + settings.timeBudgetMs;
   let overBudget = 0;
   const matrices: MatrixReport[] = [];
+  const built: { report: MatrixReport; core: MatrixCore; lit: MatrixLiteral }[] = [];
   for (let index = 0; index < file.matrices.length; index++) {
     if (options.isCancelled?.()) break;
     const lit = file.matrices[index];
     if (lit.pragma?.ignore) continue;
     const model = modelOf.get(index) ?? null;
-    const report = reportForMatrix(text, file, lit, index, model, settings, options.cache, Date.now() > deadline);
+    const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, Date.now() > deadline);
     // Only matrices actually left unanalysed count (cached ones are always filled in), so a pass
     // over a fully cached document is complete however long building the reports took.
     if (report.skipped.some((s) => s.startsWith(BUDGET_SKIP))) overBudget++;
     matrices.push(report);
+    built.push({ report, core, lit });
   }
-  if (overBudget > 0) {
+  // Verification: every closed form is built once and checked against an independent
+  // numeric reference, after all verdicts (so that those come first); only the check's
+  // summary stays with the matrix, the closed form itself goes to the bounded store.
+  let unchecked = 0;
+  for (const { core } of built) {
+    if (!core.closedForm || core.closedForm.settled) continue;
+    if (options.isCancelled?.() || Date.now() > deadline) unchecked++;
+    else core.closedForm.get();
+  }
+  for (const { report, core, lit } of built) if (report.role === 'state') report.findings = findingsForMatrix(report, core, lit, settings);
+  if (overBudget > 0 || unchecked > 0) {
+    const parts = [
+      overBudget > 0 ? `${overBudget} matri${overBudget === 1 ? 'x was' : 'ces were'} not analysed` : '',
+      unchecked > 0 ? `${unchecked} closed form${unchecked === 1 ? ' was' : 's were'} not yet checked` : '',
+    ].filter(Boolean);
     findings.push({
       span: { start: 0, end: 0 },
       severity: 'information',
       code: 'analysis-limit',
-      message: `The time budget of ${settings.timeBudgetMs} ms (setting eigenlens.timeBudgetMs) ran out: ${overBudget} matri${overBudget === 1 ? 'x was' : 'ces were'} not analysed in this pass.`,
+      message: `The time budget of ${settings.timeBudgetMs} ms (setting eigenlens.timeBudgetMs) ran out: ${parts.join(' and ')} in this pass.`,
     });
   }
 
@@ -160,7 +190,7 @@ export function analyzeDocument(
     if (options.isCancelled?.()) break;
     models.push(cachedModelAnalysis(file, m, byIndex, settings, options.cache));
   }
-  return { language, matrices, models, findings, incomplete: overBudget > 0 };
+  return { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 };
 }
 
 const MODEL_ROLES: ModelRole[] = ['state', 'input', 'output', 'feedthrough', 'noiseInput', 'noiseCovariance'];
@@ -237,7 +267,7 @@ function reportForMatrix(
   settings: AnalysisSettings,
   cache: AnalysisCache | undefined,
   overBudget = false,
-): MatrixReport {
+): { report: MatrixReport; core: MatrixCore } {
   const values = entryValues(lit);
   const isState = lit.role === 'state' || (model !== null && model.state === index);
   const domain: Domain = model?.domain ?? lit.pragma?.domain ?? settings.defaultDomain;
@@ -264,11 +294,11 @@ function reportForMatrix(
     core = emptyCore();
     core.skipped.push(`${BUDGET_SKIP} of ${settings.timeBudgetMs} ms ran out before this matrix.`);
   } else if (!core) {
-    core = isState ? analyseStateMatrix(lit, values, domain, period, settings, file, model) : emptyCore();
+    core = isState ? analyseStateMatrix(lit, values, domain, period, settings, file, model, hash, cache?.closedForms ?? null) : emptyCore();
     cache?.set(hash, core);
   }
 
-  const report: MatrixReport = {
+  const report = {
     index,
     name: lit.name,
     line,
@@ -288,14 +318,17 @@ function reportForMatrix(
     spectrum: core.spectrum,
     stability: core.stability,
     modes: core.modes,
-    transition: core.transition,
     discrete: core.discrete,
+    closedFormAvailable: core.closedForm !== null && core.closedForm.error === null,
     findings: [],
     skipped: core.skipped,
     hash,
-  };
-  report.findings = isState ? findingsForMatrix(report, core, lit, settings) : [];
-  return report;
+  } as Omit<MatrixReport, 'transition'> as MatrixReport;
+  // Read on demand (hovers, lenses, actions, the CLI's output); not enumerable, so copies of a
+  // report and JSON.stringify never build it by accident.
+  const slot = core.closedForm;
+  Object.defineProperty(report, 'transition', { get: () => slot?.get() ?? null, enumerable: false, configurable: true });
+  return { report, core };
 }
 
 /** The model's other matrices change the discretization, so they are part of the key. */
@@ -314,7 +347,7 @@ function periodOf(v: EntryValue | undefined): number | null {
 }
 
 function emptyCore(): MatrixCore {
-  return { spectrum: null, stability: null, stabilityReasons: [], modes: [], transition: null, discrete: null, skipped: [], notes: [] };
+  return { spectrum: null, stability: null, stabilityReasons: [], modes: [], closedForm: null, discrete: null, skipped: [], notes: [] };
 }
 
 function analyseStateMatrix(
@@ -325,6 +358,8 @@ function analyseStateMatrix(
   settings: AnalysisSettings,
   file: ExtractedFile,
   model: ModelGroup | null,
+  hash: string,
+  store: ClosedFormStore | null,
 ): MatrixCore {
   const core = emptyCore();
   const n = lit.nRows;
@@ -377,11 +412,7 @@ function analyseStateMatrix(
   core.modes = modesOf(spectrum, domain, period);
 
   if (n <= settings.closedFormMaxN) {
-    try {
-      core.transition = transitionClosedForm(exactA ?? floatA, spectrum, domain, { maxN: settings.closedFormMaxN });
-    } catch (err) {
-      core.skipped.push(`The closed form could not be built: ${(err as Error).message}`);
-    }
+    core.closedForm = new ClosedFormSlot(hash, exactA ?? floatA, spectrum, domain, settings.closedFormMaxN, store, (message) => core.skipped.push(message));
   } else {
     core.skipped.push(`n = ${n} is over the closed-form limit of ${settings.closedFormMaxN} (setting eigenlens.closedFormMaxN).`);
   }

@@ -85,7 +85,7 @@ export function findingsForMatrix(report: MatrixReport, core: MatrixCore, lit: M
     });
   }
 
-  const cf = core.transition;
+  const cf = core.closedForm?.summary ?? null;
   if (spec.nearRepeated.length > 0 || (cf && !cf.check.passed)) {
     const pairs = spec.nearRepeated.map(({ a, b, separation }) => `${spec.eigenvalues[a].text} and ${spec.eigenvalues[b].text} (apart ${formatNumber(separation, 3)})`);
     const check = cf ? ` The closed form's check against the numeric ${continuous ? 'exponential' : 'powers'} has residual ${formatNumber(cf.check.residual, 3)} (cancellation factor ${formatNumber(cf.conditioning, 3)}).` : '';

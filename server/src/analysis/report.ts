@@ -54,7 +54,13 @@ export interface MatrixReport {
   spectrum: Spectrum | null;
   stability: Stability | null;
   modes: Mode[];
-  transition: TransitionClosedForm | null;
+  /**
+   * The closed form, built on first read (so only read it where it is shown: hovers, actions,
+   * the CLI). Not an own enumerable property: copying a report does not build it.
+   */
+  readonly transition: TransitionClosedForm | null;
+  /** A closed form can be built (a spectrum, within the size cap, no earlier failure); reading this builds nothing. */
+  closedFormAvailable: boolean;
   discrete: DiscreteModel | null;
   findings: Finding[];
   /** What was not computed and why (caps, bad entries). */

@@ -10,7 +10,7 @@ import type { DocumentReport, MatrixReport } from '../analysis/report';
 import type { SourceLanguage, Span } from '../syntax/types';
 import type { TextEdit } from './edits';
 import { domainEdit } from './pragmaEdit';
-import { phiFunctionName, phiInsertEdit, supportsPhiCode } from './phiCode';
+import { phiBlockExists, phiFunctionName, phiInsertEdit, supportsPhiCode } from './phiCode';
 import { cCommentInsertEdit, discreteInsertEdit, METHOD_LABEL } from './discreteCode';
 import type { DiscretizationMethod } from '../engine/discretize';
 
@@ -26,7 +26,10 @@ export const ACTION_KINDS: Record<ActionKind, string> = {
 export interface PlainCodeAction {
   title: string;
   kind: ActionKind;
+  /** The edits; empty when `resolveEdits` builds them (the LSP layer defers those to codeAction/resolve). */
   edits: TextEdit[];
+  /** Builds the edits on demand: set on actions that need closed forms, which are costly to build for a menu. */
+  resolveEdits?: () => TextEdit[];
   /** Codes of the diagnostics (at the request range) this action fixes. */
   fixes: string[];
   isPreferred?: boolean;
@@ -72,27 +75,33 @@ export function codeActionsAt(report: DocumentReport, text: string, language: So
       if (fixes.length > 0 && wanted('quickfix', request.only)) out.push({ title, kind: 'quickfix', edits: [edit], fixes });
       else if (wanted('refactor.rewrite', request.only)) out.push({ title, kind: 'refactor.rewrite', edits: [edit], fixes: [] });
     }
-    if (supportsPhiCode(language) && matrix.transition && wanted('refactor.rewrite', request.only)) {
-      const insert = phiInsertEdit(matrix, language, text);
-      if (insert) {
-        const what = matrix.transition.variable === 't' ? 'Φ(t)' : 'A^k';
-        const replacing = insert.span.end > insert.span.start;
-        out.push({
-          title: `${replacing ? 'Regenerate' : 'Insert'} ${what} of ${label(matrix)} as function ${phiFunctionName(matrix)}`,
-          kind: 'refactor.rewrite',
-          edits: [insert],
-          fixes: [],
-        });
-      }
+    if (supportsPhiCode(language) && matrix.closedFormAvailable && wanted('refactor.rewrite', request.only)) {
+      const what = matrix.domain === 'continuous' ? 'Φ(t)' : 'A^k';
+      out.push({
+        title: `${phiBlockExists(matrix, language, text) ? 'Regenerate' : 'Insert'} ${what} of ${label(matrix)} as function ${phiFunctionName(matrix)}`,
+        kind: 'refactor.rewrite',
+        edits: [],
+        resolveEdits: () => {
+          const insert = phiInsertEdit(matrix, language, text);
+          return insert ? [insert] : [];
+        },
+        fixes: [],
+      });
     }
     if (matrix.domain === 'continuous' && matrix.period !== null && wanted('refactor.rewrite', request.only)) {
       out.push(...discreteActions(report, matrix, text, language, matrix.period, request.codePrecision ?? 17));
     }
   }
   if (supportsPhiCode(language) && wanted('source', request.only)) {
-    const edits = states.filter((m) => m.transition).map((m) => phiInsertEdit(m, language, text)).filter((e): e is TextEdit => e !== null);
-    if (edits.length > 0) {
-      out.push({ title: `Insert the transition function of every state matrix (${edits.length})`, kind: 'source', edits, fixes: [] });
+    const withClosedForm = states.filter((m) => m.closedFormAvailable);
+    if (withClosedForm.length > 0) {
+      out.push({
+        title: `Insert the transition function of every state matrix (${withClosedForm.length})`,
+        kind: 'source',
+        edits: [],
+        resolveEdits: () => withClosedForm.map((m) => phiInsertEdit(m, language, text)).filter((e): e is TextEdit => e !== null),
+        fixes: [],
+      });
     }
   }
   return out;

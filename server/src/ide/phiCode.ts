@@ -25,7 +25,15 @@ export function supportsPhiCode(language: SourceLanguage): language is CodeLangu
 
 export function phiFunctionName(matrix: MatrixReport): string {
   const base = (matrix.name ?? `matrix_line${matrix.line}`).replace(/[^A-Za-z0-9_]/g, '_');
-  return `${matrix.transition?.variable === 'k' ? 'powers' : 'phi'}_${base}`;
+  return `${matrix.domain === 'discrete' ? 'powers' : 'phi'}_${base}`;
+}
+
+/** A generated block for this matrix is already in the document (so an action regenerates it). */
+export function phiBlockExists(matrix: MatrixReport, language: CodeLanguage, documentText: string): boolean {
+  const fn = phiFunctionName(matrix);
+  const leader = language === 'python' ? '#' : '//';
+  const beginAt = documentText.indexOf(beginMarker(leader, fn));
+  return beginAt >= 0 && documentText.indexOf(endMarker(leader, fn), beginAt) >= 0;
 }
 
 const num = (x: number): string => (Object.is(x, -0) ? '0' : String(x));

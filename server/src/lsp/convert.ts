@@ -63,9 +63,13 @@ export function toWorkspaceEdit(doc: TextDocument, edits: TextEdit[]): Workspace
   };
 }
 
-export function toCodeAction(doc: TextDocument, action: PlainCodeAction, contextDiagnostics: Diagnostic[]): CodeAction {
+/**
+ * `deferred`: the client resolves edits (codeAction/resolve), so an action with costly edits
+ * goes out without them and with `data` for the resolve request to find it again.
+ */
+export function toCodeAction(doc: TextDocument, action: PlainCodeAction, contextDiagnostics: Diagnostic[], deferred?: unknown): CodeAction {
   const kind = action.kind === 'quickfix' ? CodeActionKind.QuickFix : ACTION_KINDS[action.kind];
-  const result = CodeAction.create(action.title, toWorkspaceEdit(doc, action.edits), kind);
+  const result: CodeAction = action.resolveEdits && deferred !== undefined ? { title: action.title, kind, data: deferred } : CodeAction.create(action.title, toWorkspaceEdit(doc, action.resolveEdits ? action.resolveEdits() : action.edits), kind);
   if (action.fixes.length) result.diagnostics = contextDiagnostics.filter((d) => typeof d.code === 'string' && action.fixes.includes(d.code));
   if (action.isPreferred) result.isPreferred = true;
   return result;

@@ -12,7 +12,9 @@
  * - Every handler is guarded: an exception becomes one log line and an empty answer.
  */
 import {
+  type CodeAction,
   CodeActionKind,
+  type Range,
   ErrorCodes,
   ResponseError,
   type WorkspaceEdit,
@@ -41,7 +43,13 @@ import {
   type DiscretizeRequestParams,
   type ReportRequestParams,
   type ReportRequestResult,
+  StatsRequestMethod,
+  type StatsRequestResult,
+  TransitionTextRequestMethod,
+  type TransitionTextRequestParams,
+  type TransitionTextRequestResult,
 } from '../shared/protocol';
+import { asciiMinus, transitionText, transitionTitle } from '../ide/format';
 import { CODE_METHODS, cInitializerText, discreteCodeFor, discreteInsertEdit } from '../ide/discreteCode';
 import type { DiscretizationMethod } from '../engine/discretize';
 import { DEFAULT_IDE_SETTINGS, settingsFromUser, type IdeSettings } from '../ide/settings';
@@ -51,6 +59,7 @@ import { diagnosticsOf } from '../ide/diagnostics';
 import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
 import { reportMarkdown } from '../ide/report';
+import { IdleCollector } from './idleCollect';
 import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
 
 /** Diagnostics wait this long after the last keystroke (common practice for linters: 100–300 ms). */
@@ -94,8 +103,11 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   const reports = new Map<string, CachedReport>();
   const settingsCache = new Map<string, Promise<IdeSettings>>();
   const timers = new Map<string, NodeJS.Timeout>();
+  const idle = new IdleCollector();
   let canPullConfiguration = false;
   let canRegisterConfigurationChange = false;
+  /** The client resolves code action edits lazily (codeAction/resolve with `edit`). */
+  let canResolveActionEdits = false;
   let pushedSettings: IdeSettings = DEFAULT_IDE_SETTINGS;
   let ready: Promise<void> = Promise.resolve();
 
@@ -184,9 +196,11 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     // Big documents are analysed in slices: publish what is known, then continue (the matrix
     // cache keeps every finished matrix, so each pass gets further) until the report is complete.
     if (result.report.incomplete) scheduleDiagnostics(uri, 0);
+    else if (timers.size === 0) idle.touch();
   }
 
   function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
+    idle.cancel();
     const previous = timers.get(uri);
     if (previous) clearTimeout(previous);
     timers.set(
@@ -202,13 +216,14 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const workspace = params.capabilities.workspace;
     canPullConfiguration = workspace?.configuration === true;
     canRegisterConfigurationChange = workspace?.didChangeConfiguration?.dynamicRegistration === true;
+    canResolveActionEdits = params.capabilities.textDocument?.codeAction?.resolveSupport?.properties?.includes('edit') === true;
     ready = initAnalysis().catch((err: unknown) => log(`the source parsers did not load: ${String(err)}`));
     return {
       capabilities: {
         textDocumentSync: { openClose: true, change: TextDocumentSyncKind.Incremental },
         hoverProvider: true,
         codeLensProvider: { resolveProvider: false },
-        codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix, CodeActionKind.RefactorRewrite, ACTION_KINDS.source] },
+        codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix, CodeActionKind.RefactorRewrite, ACTION_KINDS.source], resolveProvider: true },
         executeCommandProvider: { commands: [...SERVER_COMMANDS] },
       },
       serverInfo: { name: 'eigenlens' },
@@ -250,6 +265,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       timers.delete(e.document.uri);
       reports.delete(e.document.uri);
       justOpened.delete(e.document.uri);
+      if (timers.size === 0) idle.touch();
       settingsCache.delete(e.document.uri);
       void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
     }),
@@ -276,21 +292,88 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     }),
   );
 
+  /** Where a deferred code action came from, so that codeAction/resolve can build it again. */
+  interface DeferredAction {
+    uri: string;
+    version: number;
+    range: Range;
+    only: string[];
+    diagnosticCodes: string[];
+    title: string;
+  }
+
+  async function plainActions(doc: TextDocument, range: Range, only: string[], diagnosticCodes: string[], token?: CancellationToken) {
+    const result = await reportFor(doc, token);
+    const language = languageOf(doc);
+    if (!result || !language) return null;
+    const actions = codeActionsAt(result.report, doc.getText(), language, {
+      span: toSpan(doc, range),
+      diagnosticCodes,
+      only,
+      codePrecision: result.settings.codePrecision,
+    });
+    return actions;
+  }
+
   connection.onCodeAction(
     guarded('codeAction', [], async (params, token) => {
       const doc = documents.get(params.textDocument.uri);
       if (!doc) return [];
-      const result = await reportFor(doc, token);
-      const language = languageOf(doc);
-      if (!result || !language) return [];
       const ours = params.context.diagnostics.filter((d) => d.source === 'eigenlens' && typeof d.code === 'string');
-      const actions = codeActionsAt(result.report, doc.getText(), language, {
-        span: toSpan(doc, params.range),
-        diagnosticCodes: ours.map((d) => d.code as string),
-        only: params.context.only ?? [],
-        codePrecision: result.settings.codePrecision,
+      const only = params.context.only ?? [];
+      const codes = ours.map((d) => d.code as string);
+      const actions = await plainActions(doc, params.range, only, codes, token);
+      if (!actions) return [];
+      // Actions that write closed forms are built only when chosen, where the client allows it.
+      return actions.map((a) => {
+        const data: DeferredAction | undefined = canResolveActionEdits ? { uri: doc.uri, version: doc.version, range: params.range, only, diagnosticCodes: codes, title: a.title } : undefined;
+        return toCodeAction(doc, a, ours, data);
       });
-      return actions.map((a) => toCodeAction(doc, a, ours));
+    }),
+  );
+
+  connection.onCodeActionResolve(
+    guarded('codeActionResolve', null as unknown as CodeAction, async (action: CodeAction) => {
+      const data = action.data as Partial<DeferredAction> | undefined;
+      const doc = typeof data?.uri === 'string' ? documents.get(data.uri) : undefined;
+      if (!doc || !data || data.version !== doc.version || !data.range) return action;
+      const actions = await plainActions(doc, data.range, data.only ?? [], data.diagnosticCodes ?? []);
+      const found = actions?.find((a) => a.title === data.title);
+      if (!found) return action;
+      const resolved = toCodeAction(doc, found, action.diagnostics ?? []);
+      return { ...action, edit: resolved.edit };
+    }),
+  );
+
+  connection.onRequest(
+    StatsRequestMethod,
+    guarded('stats', null as StatsRequestResult | null, (params?: { collectGarbage?: boolean }): StatsRequestResult => {
+      // Only when node runs with --expose-gc (benchmarks): the live size rather than the heap's high-water mark.
+      const gc = (globalThis as { gc?: () => void }).gc;
+      if (params?.collectGarbage && gc) gc();
+      const m = process.memoryUsage();
+      const mb = (x: number) => Math.round((x / 2 ** 20) * 10) / 10;
+      return {
+        memoryMB: { rss: mb(m.rss), heapUsed: mb(m.heapUsed), heapTotal: mb(m.heapTotal), external: mb(m.external) },
+        documents: documents.all().length,
+        matrixCache: { size: matrixCache.size, hits: matrixCache.hits, misses: matrixCache.misses },
+        closedForms: { held: matrixCache.closedForms.size, terms: matrixCache.closedForms.heldTerms, builds: matrixCache.closedForms.builds },
+        idleCollections: idle.collections,
+      };
+    }),
+  );
+
+  connection.onRequest(
+    TransitionTextRequestMethod,
+    guarded('transitionText', { text: null, error: 'The request failed; see the server log.' } as TransitionTextRequestResult, async (params: TransitionTextRequestParams): Promise<TransitionTextRequestResult> => {
+      const doc = typeof params?.uri === 'string' ? documents.get(params.uri) : undefined;
+      if (!doc) return { text: null, error: 'That document is not open.' };
+      const result = await reportFor(doc);
+      const matrix = result?.report.matrices.find((m) => m.index === params.matrixIndex && m.role === 'state');
+      const transition = matrix?.transition;
+      if (!result || !matrix || !transition) return { text: null, error: 'No closed-form transition matrix for that matrix.' };
+      const text = `${transitionTitle(matrix.name ?? 'A', transition.variable)}\n${transitionText(transition, result.settings.analysis.precision)}\n`;
+      return { text: asciiMinus(text), error: null };
     }),
   );
 

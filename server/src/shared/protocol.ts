@@ -42,7 +42,11 @@ export interface EigenlensUserSettings {
 export const Commands = {
   /** Client: args [uri, matrixIndex?] — request `eigenlens/report` and show it read-only. */
   showFullAnalysis: 'eigenlens.showFullAnalysis',
-  /** Client: args [text] — copy the transition matrix text to the clipboard. */
+  /**
+   * Client: args [uri, matrixIndex] — ask the server for the closed form as text
+   * (`eigenlens/transitionText`) and copy it to the clipboard. A single string argument is
+   * copied as it is.
+   */
   copyTransitionMatrix: 'eigenlens.copyTransitionMatrix',
   /** Client (palette): forwards to serverSwitchDomain with the active document and cursor. */
   switchDomain: 'eigenlens.switchDomain',
@@ -63,6 +67,35 @@ export interface ReportRequestParams {
   uri: string;
   /** MatrixReport.index; omitted = every state matrix of the document. */
   matrixIndex?: number;
+}
+
+/**
+ * Custom request (no params): the server's memory and cache figures, for benchmarks and bug
+ * reports. Memory in MB as Node's process.memoryUsage() reports it.
+ */
+export const StatsRequestMethod = 'eigenlens/stats';
+
+export interface StatsRequestResult {
+  memoryMB: { rss: number; heapUsed: number; heapTotal: number; external: number };
+  documents: number;
+  matrixCache: { size: number; hits: number; misses: number };
+  closedForms: { held: number; terms: number; builds: number };
+  /** Full collections the idle collector ran. */
+  idleCollections: number;
+}
+
+/** Custom request: the closed-form transition matrix of one state matrix as plain text. */
+export const TransitionTextRequestMethod = 'eigenlens/transitionText';
+
+export interface TransitionTextRequestParams {
+  uri: string;
+  matrixIndex: number;
+}
+
+export interface TransitionTextRequestResult {
+  /** "Φ(t) = e^{At} …" with ASCII minus signs, or null when there is no closed form. */
+  text: string | null;
+  error: string | null;
 }
 
 export interface ReportRequestResult {

@@ -27,18 +27,28 @@ const parseCache = new ParseCache();
 /** Matrices built by earlier extractions, reused when their literal and the constants it reads are unchanged. */
 const literalMemo = new LiteralMemo();
 
-/** Drops every cached tree and memoised literal (frees their memory; results do not change). */
+/**
+ * Extractions of recent texts, for passes over an unchanged text (a document analysed in
+ * slices, hovers between edits): they need neither a syntax tree nor a walk. Keyed by the
+ * text itself; the texts are the documents' own strings, so holding them costs nothing extra.
+ */
+const EXTRACTED_KEEP = 16;
+const extracted: { key: string; text: string; file: ExtractedFile }[] = [];
+let extractedHits = 0;
+
+/** Drops every cached tree, extraction and memoised literal (frees their memory; results do not change). */
 export function clearExtractCaches(): void {
   parseCache.clear();
   literalMemo.clear();
+  extracted.length = 0;
 }
 
 /** How many parses were served unchanged, incrementally or from scratch since start. */
 export function extractCacheStats(): {
-  parses: { unchanged: number; incremental: number; full: number };
+  parses: { unchanged: number; incremental: number; full: number; unchangedExtractions: number };
   literals: { hits: number; misses: number; unmemoised: number; skippedStatements: number };
 } {
-  return { parses: { ...parseCache.stats }, literals: { ...literalMemo.stats } };
+  return { parses: { ...parseCache.stats, unchangedExtractions: extractedHits }, literals: { ...literalMemo.stats } };
 }
 
 /** Loads the parsers (idempotent). `wasmDir` overrides where the .wasm files are looked for. */
@@ -51,6 +61,23 @@ function emptyFile(language: SourceLanguage): ExtractedFile {
 }
 
 export function extract(text: string, language: SourceLanguage, opts?: ExtractOptions): ExtractedFile {
+  if (opts?.reuse === false) return extractFresh(text, language, opts);
+  const key = `${language}\u0000${(opts?.stateMatrixNames ?? []).join('\u0000')}`;
+  const i = extracted.findIndex((e) => e.key === key && e.text === text);
+  if (i >= 0) {
+    const hit = extracted[i];
+    extracted.splice(i, 1);
+    extracted.push(hit);
+    extractedHits++;
+    return hit.file;
+  }
+  const file = extractFresh(text, language, opts);
+  extracted.push({ key, text, file });
+  if (extracted.length > EXTRACTED_KEEP) extracted.shift();
+  return file;
+}
+
+function extractFresh(text: string, language: SourceLanguage, opts?: ExtractOptions): ExtractedFile {
   try {
     const patterns = compileNamePatterns(opts?.stateMatrixNames);
     if (language === 'lti') return extractLti(text, patterns);

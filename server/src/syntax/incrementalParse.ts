@@ -27,14 +27,18 @@ interface CachedParse {
   tree: Tree;
 }
 
-/** How many texts are kept: a few open documents, each with its last version. */
-export const PARSE_CACHE_SIZE = 8;
 /**
- * And at most this many characters of text in all: a tree takes tens of bytes per character of
- * source, so this keeps the cached trees within a few hundred MB even for the largest files
- * analysed; the newest tree is always kept.
+ * How many texts are kept: the documents being edited. A tree is needed only when a text
+ * changes (an unchanged text reuses its extraction, see extract.ts), so a document not
+ * edited lately gives its tree up and pays one full parse at its next edit.
  */
-export const PARSE_CACHE_CHARS = 4_000_000;
+export const PARSE_CACHE_SIZE = 4;
+/**
+ * And at most this many characters of text in all: a tree takes about 30 bytes per character
+ * of source in tree-sitter's WASM heap, which never shrinks, so this bounds that heap to
+ * tens of MB; the newest tree is always kept.
+ */
+export const PARSE_CACHE_CHARS = 1_000_000;
 
 /**
  * Reuse pays off when most of the text is unchanged; below this share of the longer text a
