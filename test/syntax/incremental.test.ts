@@ -157,6 +157,38 @@ describe('incremental extraction equals extraction from scratch', () => {
     expect(changed.map((m) => m.name)).toEqual([`A11`]);
   });
 
+  // Keystrokes inside entries: digits, a sign, a decimal point, an exponent, deletions, at
+  // either end of an entry or inside it. Most take the entry-edit path (entryEdit.ts); those
+  // that change the shape (a comma, a letter, a bracket) go the ordinary way; all must give
+  // exactly the fresh extraction.
+  const ENTRY_INSERTS = ['', '7', '0', '5', '-', '.', 'e', 'e-3', '.25', '12', ',', ' ', 'x', ']', '2j'];
+  const entryEditArb = fc.record({ matrix: fc.nat(), entry: fc.nat(), offset: fc.nat(), remove: fc.nat(3), insert: fc.constantFrom(...ENTRY_INSERTS) });
+  for (const lang of ['python', 'typescript'] as const) {
+    it(`${lang}: typing inside entries equals a fresh extraction, mostly without the parser`, () => {
+      const seedText = generateSourceFile(lang === 'python' ? 21 : 22, lang, { lines: 400, count: 30 }).text;
+      const before = extractCacheStats();
+      fc.assert(
+        fc.property(fc.array(entryEditArb, { minLength: 1, maxLength: 10 }), (edits) => {
+          let text = seedText;
+          extract(text, lang);
+          for (const e of edits) {
+            const file = extract(text, lang, { reuse: false });
+            const matrices = file.matrices.filter((m) => m.rows.length > 0);
+            if (matrices.length === 0) break;
+            const m = matrices[e.matrix % matrices.length];
+            const entries = m.rows.flat();
+            const target = entries[e.entry % entries.length];
+            const at = target.span.start + (e.offset % (target.span.end - target.span.start + 1));
+            text = text.slice(0, at) + e.insert + text.slice(Math.min(target.span.end, at + e.remove));
+            expect(extract(text, lang)).toEqual(extract(text, lang, { reuse: false }));
+          }
+        }),
+        { seed: 20251203, numRuns: 40 },
+      );
+      expect(extractCacheStats().parses.entryEdits).toBeGreaterThan(before.parses.entryEdits + 40);
+    });
+  }
+
   it('an unchanged text is served from its extraction: no parse, no walk, the same result', () => {
     const { text } = generateSourceFile(6, 'typescript', { lines: 300, count: 20 });
     const first = extract(text, 'typescript');

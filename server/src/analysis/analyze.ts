@@ -48,6 +48,8 @@ export interface MatrixCore {
   discrete: DiscreteModel | null;
   skipped: string[];
   notes: string[];
+  /** The findings last built from this analysis, spans relative to the literal (see cachedFindings). */
+  findingsMemo?: { key: string; findings: Finding[] };
 }
 
 type ModelRole = 'state' | 'input' | 'output' | 'feedthrough' | 'noiseInput' | 'noiseCovariance';
@@ -113,6 +115,12 @@ export interface AnalyzeOptions {
   cache?: AnalysisCache;
   /** Called between matrices; return true to abandon the analysis (stale version). */
   isCancelled?: () => boolean;
+  /**
+   * Leave the closed-form checks of matrices not yet checked for a later pass (the report is
+   * then incomplete, without a note): after an edit, the verdicts go out first and the check
+   * of the edited matrix follows in the next pass.
+   */
+  deferChecks?: boolean;
 }
 
 export function analyzeDocument(
@@ -165,12 +173,14 @@ export function analyzeDocument(
   // numeric reference, after all verdicts (so that those come first); only the check's
   // summary stays with the matrix, the closed form itself goes to the bounded store.
   let unchecked = 0;
+  let deferred = 0;
   for (const { core } of built) {
     if (!core.closedForm || core.closedForm.settled) continue;
-    if (options.isCancelled?.() || Date.now() > deadline) unchecked++;
+    if (options.deferChecks) deferred++;
+    else if (options.isCancelled?.() || Date.now() > deadline) unchecked++;
     else core.closedForm.get();
   }
-  for (const { report, core, lit } of built) if (report.role === 'state') report.findings = findingsForMatrix(report, core, lit, settings);
+  for (const { report, core, lit } of built) if (report.role === 'state') report.findings = cachedFindings(report, core, lit, settings);
   if (overBudget > 0 || unchecked > 0) {
     const parts = [
       overBudget > 0 ? `${overBudget} matri${overBudget === 1 ? 'x was' : 'ces were'} not analysed` : '',
@@ -190,7 +200,24 @@ export function analyzeDocument(
     if (options.isCancelled?.()) break;
     models.push(cachedModelAnalysis(file, m, byIndex, settings, options.cache));
   }
-  return { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 };
+  return { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 || deferred > 0 };
+}
+
+/**
+ * findingsForMatrix, remembered on the analysis: its messages depend only on the analysis,
+ * the matrix's name, whether its closed form was checked yet and three settings, and its
+ * spans are the literal's, so a pass over unchanged matrices only moves the spans.
+ */
+function cachedFindings(report: MatrixReport, core: MatrixCore, lit: MatrixLiteral, settings: AnalysisSettings): Finding[] {
+  const key = [lit.name ?? '', core.closedForm?.settled ?? '-', core.skipped.length, settings.precision, settings.lightDampingThreshold].join('|');
+  const memo = core.findingsMemo;
+  const base = lit.span.start;
+  if (memo && memo.key === key && memo.findings.every((f) => f.span.end - f.span.start === lit.span.end - lit.span.start)) {
+    return memo.findings.map((f) => ({ ...f, span: { start: f.span.start + base, end: f.span.end + base } }));
+  }
+  const findings = findingsForMatrix(report, core, lit, settings);
+  core.findingsMemo = { key, findings: findings.map((f) => ({ ...f, span: { start: f.span.start - base, end: f.span.end - base } })) };
+  return findings;
 }
 
 const MODEL_ROLES: ModelRole[] = ['state', 'input', 'output', 'feedthrough', 'noiseInput', 'noiseCovariance'];
@@ -258,6 +285,21 @@ function valueKey(v: EntryValue | null): string {
   return v.kind === 'exact' ? `q${v.value.toString()}` : `f${v.value}`;
 }
 
+/**
+ * The entries of a literal as a key string, computed once per literal object: unchanged
+ * literals are the same objects from one extraction to the next (see literalMemo.ts), so a
+ * pass after a one-character edit formats only the edited matrix's entries.
+ */
+const literalKeys = new WeakMap<MatrixLiteral, string>();
+function literalKey(lit: MatrixLiteral): string {
+  let key = literalKeys.get(lit);
+  if (key === undefined) {
+    key = lit.rows.map((r) => r.map((e) => valueKey(e.value)).join(',')).join(';');
+    literalKeys.set(lit, key);
+  }
+  return key;
+}
+
 function reportForMatrix(
   text: string,
   file: ExtractedFile,
@@ -275,7 +317,7 @@ function reportForMatrix(
   const { line, column } = lineColumnAt(text, lit.span.start);
 
   const hashInput = [
-    values.map((r) => r.map(valueKey).join(',')).join(';'),
+    literalKey(lit),
     isState ? 'S' : 'O',
     domain,
     String(period),
@@ -336,7 +378,7 @@ function modelKey(file: ExtractedFile, model: ModelGroup | null): string {
   if (!model) return '';
   const parts: string[] = [];
   for (const idx of [model.input, model.output, model.feedthrough, model.noiseInput, model.noiseCovariance]) {
-    parts.push(idx === null || idx === undefined ? '-' : entryValues(file.matrices[idx]).map((r) => r.map(valueKey).join(',')).join(';'));
+    parts.push(idx === null || idx === undefined ? '-' : literalKey(file.matrices[idx]));
   }
   return parts.join('/');
 }

@@ -60,6 +60,7 @@ import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
 import { reportMarkdown } from '../ide/report';
 import { IdleCollector } from './idleCollect';
+import { OPENING_MIN_CHARS, openingCut, openingDiagnostics } from '../ide/opening';
 import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
 
 /** Diagnostics wait this long after the last keystroke (common practice for linters: 100–300 ms). */
@@ -67,6 +68,11 @@ export const DIAGNOSTIC_DEBOUNCE_MS = 150;
 
 /** Analysis time per diagnostics pass; a larger document is finished by further passes. */
 export const DIAGNOSTIC_SLICE_MS = 250;
+
+const TRACE = process.env.EIGENLENS_TRACE === '1';
+
+/** Analysis time of the opening pass over a large document's first lines (see ide/opening.ts). */
+export const OPENING_SLICE_MS = 100;
 
 const LANGUAGE_IDS: Record<string, SourceLanguage> = {
   python: 'python',
@@ -156,6 +162,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     doc: TextDocument,
     token?: CancellationToken,
     pass: 'request' | 'slice' = 'request',
+    deferChecks = false,
   ): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
     const sliceMs = pass === 'slice' ? DIAGNOSTIC_SLICE_MS : undefined;
     await ready;
@@ -175,28 +182,76 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const report = analyzeDocument(doc.getText(), language, analysis, {
       cache: matrixCache,
       isCancelled: () => token?.isCancellationRequested === true,
+      deferChecks,
     });
     if (token?.isCancellationRequested) return null;
     reports.set(doc.uri, { version: doc.version, settings, report });
     return { report, settings };
   }
 
+  /** Documents whose opening pass ran (or was not needed). */
+  const opened = new Set<string>();
+  /** Documents whose next pass continues an unfinished one (rather than following an edit). */
+  const continuing = new Set<string>();
+  /** EIGENLENS_TRACE: when each document last changed. */
+  const changedAt = new Map<string, number>();
+
+  /**
+   * The first pass over a large document reads only its first lines and publishes what they
+   * settle (ide/opening.ts); true when it published, so that full passes follow.
+   */
+  async function publishOpening(doc: TextDocument): Promise<boolean> {
+    opened.add(doc.uri);
+    const text = doc.getText();
+    const cut = openingCut(text);
+    if (cut === null) return false;
+    await ready;
+    const language = languageOf(doc);
+    if (!language) return false;
+    const settings = await settingsFor(doc.uri);
+    const latest = documents.get(doc.uri);
+    if (!latest || latest.version !== doc.version || text.length > settings.analysis.maxFileChars) return false;
+    const prefix = text.slice(0, cut);
+    const budget = Math.min(settings.analysis.timeBudgetMs, OPENING_SLICE_MS);
+    const report = analyzeDocument(prefix, language, { ...settings.analysis, timeBudgetMs: budget }, { cache: matrixCache });
+    const diagnostics = openingDiagnostics(report, prefix, doc.lineCount).map((d) => toDiagnostic(doc, d));
+    await connection.sendDiagnostics({ uri: doc.uri, version: doc.version, diagnostics });
+    return true;
+  }
+
   async function publishDiagnostics(uri: string): Promise<void> {
     const doc = documents.get(uri);
     if (!doc) return;
+    if (!opened.has(uri) && !reports.has(uri) && (await publishOpening(doc))) {
+      continuing.add(uri);
+      scheduleDiagnostics(uri, 0);
+      return;
+    }
     // Every pass is a short slice, so that something shows quickly and requests (which use the
     // latest report) never wait long behind a pass; extraction is incremental, so a pass's fixed
     // cost is small.
-    const result = await reportFor(doc, undefined, 'slice');
+    // In a large document, the first pass after an edit leaves the closed-form check of the
+    // edited matrix to the next pass, so that its verdict goes out first; continuation passes
+    // do everything. (Small documents check at once: nothing to gain, and a check finding
+    // would flicker off and on while its matrix is edited.)
+    const continuation = continuing.delete(uri);
+    const T0 = performance.now();
+    const result = await reportFor(doc, undefined, 'slice', !continuation && doc.getText().length >= OPENING_MIN_CHARS);
+    const T1 = performance.now();
     const latest = documents.get(uri);
     // A newer version arrived while we waited: its own debounce will publish.
     if (!result || !latest || latest.version !== doc.version) return;
     const diagnostics: Diagnostic[] = diagnosticsOf(result.report).map((d) => toDiagnostic(doc, d));
+    const T2 = performance.now();
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
+    // EIGENLENS_TRACE=1: one line per diagnostics pass on stderr (for profiling; see DEVELOPERS.md).
+    if (TRACE) process.stderr.write(`pass ${uri} v${doc.version}${continuation ? ' (continued)' : ''}: ${changedAt.has(uri) ? `${(performance.now() - changedAt.get(uri)!).toFixed(1)} ms after the change, ` : ''}report ${(T1 - T0).toFixed(1)} ms, convert ${(T2 - T1).toFixed(1)} ms, send ${(performance.now() - T2).toFixed(1)} ms, ${diagnostics.length} diagnostics${result.report.incomplete ? ', more to do' : ''}\n`);
     // Big documents are analysed in slices: publish what is known, then continue (the matrix
     // cache keeps every finished matrix, so each pass gets further) until the report is complete.
-    if (result.report.incomplete) scheduleDiagnostics(uri, 0);
-    else if (timers.size === 0) idle.touch();
+    if (result.report.incomplete) {
+      continuing.add(uri);
+      scheduleDiagnostics(uri, 0);
+    } else if (timers.size === 0) idle.touch();
   }
 
   function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
@@ -255,6 +310,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     scheduleDiagnostics(e.document.uri, 0);
   });
   documents.onDidChangeContent((e) => {
+    if (TRACE) changedAt.set(e.document.uri, performance.now());
     if (justOpened.delete(e.document.uri)) return;
     scheduleDiagnostics(e.document.uri);
   });
@@ -265,6 +321,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       timers.delete(e.document.uri);
       reports.delete(e.document.uri);
       justOpened.delete(e.document.uri);
+      opened.delete(e.document.uri);
+      continuing.delete(e.document.uri);
       if (timers.size === 0) idle.touch();
       settingsCache.delete(e.document.uri);
       void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });

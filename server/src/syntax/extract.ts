@@ -2,6 +2,7 @@
  * Entry point of the syntax layer: `initParsers` once, then `extract` per document.
  * `extract` is synchronous and never throws: any internal failure becomes a Problem.
  */
+import { extractByEntryEdit } from './entryEdit';
 import { ParseCache } from './incrementalParse';
 import { LiteralMemo } from './literalMemo';
 import { extractLti } from './lti';
@@ -35,6 +36,7 @@ const literalMemo = new LiteralMemo();
 const EXTRACTED_KEEP = 16;
 const extracted: { key: string; text: string; file: ExtractedFile }[] = [];
 let extractedHits = 0;
+let entryEdits = 0;
 
 /** Drops every cached tree, extraction and memoised literal (frees their memory; results do not change). */
 export function clearExtractCaches(): void {
@@ -45,10 +47,10 @@ export function clearExtractCaches(): void {
 
 /** How many parses were served unchanged, incrementally or from scratch since start. */
 export function extractCacheStats(): {
-  parses: { unchanged: number; incremental: number; full: number; unchangedExtractions: number };
+  parses: { unchanged: number; incremental: number; full: number; unchangedExtractions: number; entryEdits: number };
   literals: { hits: number; misses: number; unmemoised: number; skippedStatements: number };
 } {
-  return { parses: { ...parseCache.stats, unchangedExtractions: extractedHits }, literals: { ...literalMemo.stats } };
+  return { parses: { ...parseCache.stats, unchangedExtractions: extractedHits, entryEdits }, literals: { ...literalMemo.stats } };
 }
 
 /** Loads the parsers (idempotent). `wasmDir` overrides where the .wasm files are looked for. */
@@ -71,7 +73,15 @@ export function extract(text: string, language: SourceLanguage, opts?: ExtractOp
     extractedHits++;
     return hit.file;
   }
-  const file = extractFresh(text, language, opts);
+  // A number typed inside one entry of a recent text: re-read that entry only (entryEdit.ts).
+  let file: ExtractedFile | null = null;
+  for (let k = extracted.length - 1; k >= Math.max(0, extracted.length - 4) && file === null; k--) {
+    const recent = extracted[k];
+    if (recent.key !== key) continue;
+    file = extractByEntryEdit(recent.file, recent.text, text, language);
+    if (file) entryEdits++;
+  }
+  file ??= extractFresh(text, language, opts);
   extracted.push({ key, text, file });
   if (extracted.length > EXTRACTED_KEEP) extracted.shift();
   return file;

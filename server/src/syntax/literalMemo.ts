@@ -46,6 +46,26 @@ interface MemoEntry {
   matrix: MatrixLiteral | null;
   problems: Problem[];
   size: number;
+  /**
+   * The copy handed out last, at `lastBase` with `lastPragma`: handed out again while neither
+   * changed (every matrix above an edit, and all of them after a same-length edit), so an
+   * edit allocates only for what moved, and later stages can key caches on the object.
+   */
+  last?: { base: number; pragma: MatrixLiteral['pragma']; matrix: MatrixLiteral };
+}
+
+function samePragma(a: MatrixLiteral['pragma'], b: MatrixLiteral['pragma']): boolean {
+  if (a === b) return true;
+  if (a === null || b === null) return false;
+  return (
+    a.span.start === b.span.start &&
+    a.span.end === b.span.end &&
+    a.domain === b.domain &&
+    a.role === b.role &&
+    a.model === b.model &&
+    a.ignore === b.ignore &&
+    sameValue(a.period, b.period)
+  );
 }
 
 /**
@@ -187,7 +207,11 @@ export class LiteralMemo {
       this.entries.set(key, found);
       this.stats.hits++;
       problems.push(...movedProblems(found.problems, base));
-      return found.matrix ? moved(found.matrix, base, pragma) : null;
+      if (!found.matrix) return null;
+      if (found.last && found.last.base === base && samePragma(found.last.pragma, pragma)) return found.last.matrix;
+      const copy = moved(found.matrix, base, pragma);
+      found.last = { base, pragma, matrix: copy };
+      return copy;
     }
 
     this.stats.misses++;
