@@ -45,7 +45,7 @@ function rssMb(pid) {
 }
 
 async function measure(label, text) {
-  const child = spawn(process.execPath, [...(process.env.EIGENLENS_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=dist/prof'] : []), join('dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', 'pipe'] });
+  const child = spawn(process.execPath, [...(process.env.EIGENLENS_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=dist/prof'] : []), join('dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', process.env.EIGENLENS_TRACE ? 'inherit' : 'pipe'] });
   const conn = createProtocolConnection(new StreamMessageReader(child.stdout), new StreamMessageWriter(child.stdin));
   const diag = [];
   let onDiag = null;

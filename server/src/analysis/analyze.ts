@@ -22,7 +22,7 @@ import type { ModelGroup } from '../model/types';
 import type { AnalysisSettings } from './settings';
 import type { DiscreteModel, DocumentReport, Finding, MatrixReport, ModelReport } from './report';
 import { discreteModelFor } from './discrete';
-import { findingsForMatrix } from './findings';
+import { findingsForMatrix, NOT_YET_PREFIX } from './findings';
 import { lineColumnAt } from './position';
 import { analyseModel } from './modelAnalysis';
 
@@ -31,7 +31,7 @@ export { DEFAULT_SETTINGS } from './settings';
 /** Largest |entry| analysed: leaves about 150 decades of headroom for products and exponentials. */
 export const MAX_ENTRY_MAGNITUDE = 1e150;
 
-const BUDGET_SKIP = "Not analysed: the document's time budget";
+const BUDGET_SKIP = NOT_YET_PREFIX;
 
 export async function initAnalysis(opts?: { wasmDir?: string }): Promise<void> {
   await initParsers(opts);
@@ -121,6 +121,11 @@ export interface AnalyzeOptions {
    * of the edited matrix follows in the next pass.
    */
   deferChecks?: boolean;
+  /**
+   * An offset the user is looking at (a hover): the matrix whose statement contains it is
+   * analysed and checked whatever the budget says.
+   */
+  focus?: number;
 }
 
 export function analyzeDocument(
@@ -162,7 +167,8 @@ export function analyzeDocument(
     const lit = file.matrices[index];
     if (lit.pragma?.ignore) continue;
     const model = modelOf.get(index) ?? null;
-    const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, Date.now() > deadline);
+    const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
+    const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, !focused && Date.now() > deadline);
     // Only matrices actually left unanalysed count (cached ones are always filled in), so a pass
     // over a fully cached document is complete however long building the reports took.
     if (report.skipped.some((s) => s.startsWith(BUDGET_SKIP))) overBudget++;
@@ -174,9 +180,11 @@ export function analyzeDocument(
   // summary stays with the matrix, the closed form itself goes to the bounded store.
   let unchecked = 0;
   let deferred = 0;
-  for (const { core } of built) {
+  for (const { core, lit } of built) {
     if (!core.closedForm || core.closedForm.settled) continue;
-    if (options.deferChecks) deferred++;
+    const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
+    if (focused) core.closedForm.get();
+    else if (options.deferChecks) deferred++;
     else if (options.isCancelled?.() || Date.now() > deadline) unchecked++;
     else core.closedForm.get();
   }
@@ -220,6 +228,8 @@ function cachedFindings(report: MatrixReport, core: MatrixCore, lit: MatrixLiter
   return findings;
 }
 
+const modelSettingsKeys = new WeakMap<AnalysisSettings, string>();
+
 const MODEL_ROLES: ModelRole[] = ['state', 'input', 'output', 'feedthrough', 'noiseInput', 'noiseCovariance'];
 
 /**
@@ -237,15 +247,12 @@ function cachedModelAnalysis(
   const state = reports.get(model.state);
   if (!cache || !state) return analyseModel(file, model, reports, settings);
   const names = MODEL_ROLES.map((r) => (model[r] === null || model[r] === undefined ? '-' : file.matrices[model[r] as number].name ?? '?'));
-  const key = [
-    state.hash,
-    names.join(','),
-    model.id,
-    settings.quantizationThreshold,
-    JSON.stringify(settings.fixedPoint),
-    settings.periodTimeConstantDivisor,
-    settings.periodMinSamplesPerOscillation,
-  ].join('|');
+  let modelSettings = modelSettingsKeys.get(settings);
+  if (modelSettings === undefined) {
+    modelSettings = [settings.quantizationThreshold, JSON.stringify(settings.fixedPoint), settings.periodTimeConstantDivisor, settings.periodMinSamplesPerOscillation].join('|');
+    modelSettingsKeys.set(settings, modelSettings);
+  }
+  const key = `${state.hash}|${names.join(',')}|${model.id}|${modelSettings}`;
   let outcome = cache.getModel(key);
   if (!outcome) {
     // Run on shadow reports so that the findings it adds can be recorded per role.
@@ -291,6 +298,7 @@ function valueKey(v: EntryValue | null): string {
  * pass after a one-character edit formats only the edited matrix's entries.
  */
 const literalKeys = new WeakMap<MatrixLiteral, string>();
+const literalHashes = new WeakMap<MatrixLiteral, { context: string; hash: string }>();
 function literalKey(lit: MatrixLiteral): string {
   let key = literalKeys.get(lit);
   if (key === undefined) {
@@ -310,26 +318,28 @@ function reportForMatrix(
   cache: AnalysisCache | undefined,
   overBudget = false,
 ): { report: MatrixReport; core: MatrixCore } {
-  const values = entryValues(lit);
+  const { values, entrySpans } = literalArrays(lit);
   const isState = lit.role === 'state' || (model !== null && model.state === index);
   const domain: Domain = model?.domain ?? lit.pragma?.domain ?? settings.defaultDomain;
   const period = model?.period ?? periodOf(lit.pragma?.period) ?? settings.defaultPeriod;
   const { line, column } = lineColumnAt(text, lit.span.start);
 
-  const hashInput = [
-    literalKey(lit),
+  const context = [
     isState ? 'S' : 'O',
     domain,
     String(period),
-    settings.exactMaxN,
-    settings.closedFormMaxN,
-    settings.numericMaxN,
-    settings.exactMaxDigits,
-    settings.nearRepeatThreshold,
-    settings.discretizeMethod,
+    settingsKey(settings),
     modelKey(file, model),
   ].join('|');
-  const hash = createHash('sha1').update(hashInput).digest('hex').slice(0, 16);
+  // Hashing every matrix of a 10,000-matrix file on every pass showed in profiles: the hash is
+  // remembered on the literal object (stable while it is unchanged) with the context it had.
+  let hash: string;
+  const known = literalHashes.get(lit);
+  if (known && known.context === context) hash = known.hash;
+  else {
+    hash = createHash('sha1').update(`${literalKey(lit)}|${context}`).digest('hex').slice(0, 16);
+    literalHashes.set(lit, { context, hash });
+  }
 
   let core = cache?.get(hash);
   if (!core && overBudget && isState) {
@@ -340,37 +350,98 @@ function reportForMatrix(
     cache?.set(hash, core);
   }
 
-  const report = {
-    index,
-    name: lit.name,
-    line,
-    column,
-    span: lit.span,
-    nameSpan: lit.nameSpan,
-    statementSpan: lit.statementSpan,
-    rows: lit.nRows,
-    cols: lit.nCols,
-    role: isState ? 'state' : lit.role,
-    modelId: model?.id ?? null,
-    domain,
-    period,
-    exact: lit.exact,
-    values,
-    entrySpans: lit.rows.map((row) => row.map((e) => e.span)),
-    spectrum: core.spectrum,
-    stability: core.stability,
-    modes: core.modes,
-    discrete: core.discrete,
-    closedFormAvailable: core.closedForm !== null && core.closedForm.error === null,
-    findings: [],
-    skipped: core.skipped,
-    hash,
-  } as Omit<MatrixReport, 'transition'> as MatrixReport;
-  // Read on demand (hovers, lenses, actions, the CLI's output); not enumerable, so copies of a
-  // report and JSON.stringify never build it by accident.
-  const slot = core.closedForm;
-  Object.defineProperty(report, 'transition', { get: () => slot?.get() ?? null, enumerable: false, configurable: true });
+  const report = new MatrixReportObject(
+    {
+      index,
+      name: lit.name,
+      line,
+      column,
+      span: lit.span,
+      nameSpan: lit.nameSpan,
+      statementSpan: lit.statementSpan,
+      rows: lit.nRows,
+      cols: lit.nCols,
+      role: isState ? 'state' : lit.role,
+      modelId: model?.id ?? null,
+      domain,
+      period,
+      exact: lit.exact,
+      values,
+      entrySpans,
+      spectrum: core.spectrum,
+      stability: core.stability,
+      modes: core.modes,
+      discrete: core.discrete,
+      closedFormAvailable: core.closedForm !== null && core.closedForm.error === null,
+      findings: [],
+      skipped: core.skipped,
+      hash,
+    },
+    core.closedForm,
+  );
   return { report, core };
+}
+
+/**
+ * A matrix report whose closed form is read on demand (hovers, lenses, actions, the CLI's
+ * output) through a getter on the prototype: copies of a report and JSON.stringify never
+ * build it by accident, and the object keeps one shape for V8.
+ */
+class MatrixReportObject implements MatrixReport {
+  index!: number;
+  name!: string | null;
+  line!: number;
+  column!: number;
+  span!: MatrixReport['span'];
+  nameSpan!: MatrixReport['nameSpan'];
+  statementSpan!: MatrixReport['statementSpan'];
+  rows!: number;
+  cols!: number;
+  role!: MatrixReport['role'];
+  modelId!: string | null;
+  domain!: Domain;
+  period!: number | null;
+  exact!: boolean;
+  entrySpans?: MatrixReport['entrySpans'];
+  values!: MatrixReport['values'];
+  spectrum!: MatrixReport['spectrum'];
+  stability!: MatrixReport['stability'];
+  modes!: MatrixReport['modes'];
+  discrete!: MatrixReport['discrete'];
+  closedFormAvailable!: boolean;
+  findings!: Finding[];
+  skipped!: string[];
+  hash!: string;
+  readonly #slot: ClosedFormSlot | null;
+  constructor(fields: Omit<MatrixReport, 'transition'>, slot: ClosedFormSlot | null) {
+    Object.assign(this, fields);
+    this.#slot = slot;
+  }
+  get transition(): MatrixReport['transition'] {
+    return this.#slot?.get() ?? null;
+  }
+}
+
+/** The settings that change a matrix analysis, as a key (once per settings object). */
+const settingsKeys = new WeakMap<AnalysisSettings, string>();
+function settingsKey(s: AnalysisSettings): string {
+  let key = settingsKeys.get(s);
+  if (key === undefined) {
+    key = [s.exactMaxN, s.closedFormMaxN, s.numericMaxN, s.exactMaxDigits, s.nearRepeatThreshold, s.discretizeMethod].join('|');
+    settingsKeys.set(s, key);
+  }
+  return key;
+}
+
+/** Entry values and spans as the report carries them, built once per literal object. */
+const literalArrayCache = new WeakMap<MatrixLiteral, { values: (EntryValue | null)[][]; entrySpans: MatrixReport['entrySpans'] }>();
+function literalArrays(lit: MatrixLiteral): { values: (EntryValue | null)[][]; entrySpans: MatrixReport['entrySpans'] } {
+  let arrays = literalArrayCache.get(lit);
+  if (!arrays) {
+    arrays = { values: entryValues(lit), entrySpans: lit.rows.map((row) => row.map((e) => e.span)) };
+    literalArrayCache.set(lit, arrays);
+  }
+  return arrays;
 }
 
 /** The model's other matrices change the discretization, so they are part of the key. */

@@ -22,7 +22,7 @@ export interface ClosedFormSummary {
 }
 
 /** Terms held in full across all documents before the least recently used closed forms go. */
-export const CLOSED_FORM_STORE_TERMS = 40_000;
+export const CLOSED_FORM_STORE_TERMS = 120_000;
 
 /** Least recently used closed forms, bounded by their total number of terms. */
 export class ClosedFormStore {

@@ -16,8 +16,8 @@ import { DIAGNOSTIC_SOURCE } from '../shared/protocol';
 
 /** Documents shorter than this are analysed whole from the first pass. */
 export const OPENING_MIN_CHARS = 60_000;
-/** About this much of a large document is read first (a few hundred lines). */
-export const OPENING_PREFIX_CHARS = 20_000;
+/** About this much of a large document is read first (about 300 lines). */
+export const OPENING_PREFIX_CHARS = 10_000;
 
 /** Characters that cannot start a top-level statement (they continue an expression). */
 const CONTINUES = new Set([' ', '\t', '\r', '\n', ')', ']', '}', ',', '.', '+', '-', '*', '/', '%', '&', '|', '^', '=', '<', '>', ':', '?', '"', "'", '`']);

@@ -4,6 +4,7 @@
  * Dominant mode: continuous — the largest real part of s; discrete — the largest |z|
  * (the slowest to die out, or the fastest to grow).
  */
+import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { Eigenvalue, Mode } from '../engine/types';
 import type { MatrixReport } from '../analysis/report';
 import { polynomialGrowth } from '../analysis/numberText';
@@ -70,6 +71,7 @@ export function lensTitle(report: MatrixReport, precision: number): string {
   const ev = mode ? eigenvalueOf(report, mode) : null;
   const lambda = ev ? shortLambda(ev, precision) : '';
   if (report.stability === null || !mode || !ev) {
+    if (report.skipped.some((s) => s.startsWith(NOT_YET_PREFIX))) return 'eigenlens: analysing…';
     return report.skipped.length > 0 ? `eigenlens: not analysed (${report.skipped[0].replace(/\.$/, '')})` : 'eigenlens: not analysed';
   }
   const block = Math.max(...ev.blocks);

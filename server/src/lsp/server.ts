@@ -29,6 +29,7 @@ import {
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
 import { AnalysisCache, analyzeDocument, initAnalysis } from '../analysis/analyze';
+import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
 import {
@@ -71,8 +72,15 @@ export const DIAGNOSTIC_SLICE_MS = 250;
 
 const TRACE = process.env.EIGENLENS_TRACE === '1';
 
+/**
+ * Analysis time a hover, lens or action may spend when no report of the document's version
+ * exists yet (a large document being analysed, or an edit not yet through its debounce): it
+ * answers from what is finished plus the matrix under the cursor, within the editor's patience.
+ */
+export const REQUEST_SLICE_MS = 120;
+
 /** Analysis time of the opening pass over a large document's first lines (see ide/opening.ts). */
-export const OPENING_SLICE_MS = 100;
+export const OPENING_SLICE_MS = 60;
 
 const LANGUAGE_IDS: Record<string, SourceLanguage> = {
   python: 'python',
@@ -114,6 +122,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   let canRegisterConfigurationChange = false;
   /** The client resolves code action edits lazily (codeAction/resolve with `edit`). */
   let canResolveActionEdits = false;
+  let canRefreshLenses = false;
   let pushedSettings: IdeSettings = DEFAULT_IDE_SETTINGS;
   let ready: Promise<void> = Promise.resolve();
 
@@ -152,19 +161,22 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     return pending;
   }
 
-  /** The report for the document's current version, computed at most once per version and settings. */
   /**
-   * `request` (hovers, lenses, actions): the latest report of this version, even one a slice left
-   * incomplete (its unfinished matrices say so; the diagnostics passes keep finishing them).
-   * `slice` (diagnostics passes): analyse within DIAGNOSTIC_SLICE_MS, continuing an incomplete report.
+   * The report of the document's current version.
+   * - `slice` (diagnostics passes): analyse within DIAGNOSTIC_SLICE_MS, continuing an
+   *   incomplete report (the matrix cache keeps everything already finished).
+   * - `interactive` (hovers, lenses, actions): the latest report of this version, even an
+   *   incomplete one, provided it covers the matrix at `focus`; otherwise a new report within
+   *   REQUEST_SLICE_MS that analyses that matrix first.
+   * - `command` (the custom requests a user runs: report, discretize, C code): the latest
+   *   complete report, or one with the document's whole time budget.
    */
   async function reportFor(
     doc: TextDocument,
-    token?: CancellationToken,
-    pass: 'request' | 'slice' = 'request',
-    deferChecks = false,
+    token: CancellationToken | undefined,
+    pass: 'slice' | 'interactive' | 'command',
+    opts: { deferChecks?: boolean; focus?: number } = {},
   ): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
-    const sliceMs = pass === 'slice' ? DIAGNOSTIC_SLICE_MS : undefined;
     await ready;
     const language = languageOf(doc);
     if (!language) return null;
@@ -172,27 +184,38 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const current = documents.get(doc.uri);
     if (!current || current.version !== doc.version || token?.isCancellationRequested) return null;
     const cached = reports.get(doc.uri);
-    // An incomplete report (its time budget ran out) is reused only by requests: a diagnostics
-    // pass continues the work, with the matrix cache keeping everything already finished.
-    if (cached && cached.version === doc.version && cached.settings === settings && (!cached.report.incomplete || pass === 'request')) {
-      return { report: cached.report, settings };
+    if (cached && cached.version === doc.version && cached.settings === settings) {
+      const r = cached.report;
+      if (!r.incomplete) return { report: r, settings };
+      if (pass === 'interactive' && (opts.focus === undefined || coversFocus(r, opts.focus))) return { report: r, settings };
     }
-    // Diagnostics passes run in slices; hovers and actions get the document's full budget.
-    const analysis = sliceMs !== undefined ? { ...settings.analysis, timeBudgetMs: Math.min(settings.analysis.timeBudgetMs, sliceMs) } : settings.analysis;
+    // An interactive request over an unfinished report only needs its focus: the passes finish the rest.
+    const unfinishedHere = cached !== undefined && cached.version === doc.version && cached.settings === settings;
+    const budget = pass === 'slice' ? DIAGNOSTIC_SLICE_MS : pass === 'interactive' ? (unfinishedHere ? 0 : REQUEST_SLICE_MS) : Number.POSITIVE_INFINITY;
+    const analysis = { ...settings.analysis, timeBudgetMs: Math.min(settings.analysis.timeBudgetMs, budget) };
     const report = analyzeDocument(doc.getText(), language, analysis, {
       cache: matrixCache,
       isCancelled: () => token?.isCancellationRequested === true,
-      deferChecks,
+      deferChecks: opts.deferChecks,
+      focus: opts.focus,
     });
     if (token?.isCancellationRequested) return null;
     reports.set(doc.uri, { version: doc.version, settings, report });
     return { report, settings };
   }
 
+  /** The report has analysed the state matrix whose statement contains `offset` (or there is none). */
+  function coversFocus(report: DocumentReport, offset: number): boolean {
+    const m = report.matrices.find((x) => x.statementSpan.start <= offset && offset <= x.statementSpan.end);
+    return !m || !m.skipped.some((s) => s.startsWith(NOT_YET_PREFIX)) && (m.role !== 'state' || m.spectrum !== null || m.skipped.length > 0);
+  }
+
   /** Documents whose opening pass ran (or was not needed). */
   const opened = new Set<string>();
   /** Documents whose next pass continues an unfinished one (rather than following an edit). */
   const continuing = new Set<string>();
+  /** Documents whose last published pass was incomplete. */
+  const unfinished = new Set<string>();
   /** EIGENLENS_TRACE: when each document last changed. */
   const changedAt = new Map<string, number>();
 
@@ -205,7 +228,9 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const text = doc.getText();
     const cut = openingCut(text);
     if (cut === null) return false;
+    const T0 = performance.now();
     await ready;
+    const T1 = performance.now();
     const language = languageOf(doc);
     if (!language) return false;
     const settings = await settingsFor(doc.uri);
@@ -214,8 +239,10 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const prefix = text.slice(0, cut);
     const budget = Math.min(settings.analysis.timeBudgetMs, OPENING_SLICE_MS);
     const report = analyzeDocument(prefix, language, { ...settings.analysis, timeBudgetMs: budget }, { cache: matrixCache });
+    const T2 = performance.now();
     const diagnostics = openingDiagnostics(report, prefix, doc.lineCount).map((d) => toDiagnostic(doc, d));
     await connection.sendDiagnostics({ uri: doc.uri, version: doc.version, diagnostics });
+    if (TRACE) process.stderr.write(`opening ${doc.uri}: parsers ready after ${(T1 - T0).toFixed(1)} ms, ${cut} characters analysed in ${(T2 - T1).toFixed(1)} ms, ${diagnostics.length} diagnostics sent\n`);
     return true;
   }
 
@@ -236,7 +263,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     // would flicker off and on while its matrix is edited.)
     const continuation = continuing.delete(uri);
     const T0 = performance.now();
-    const result = await reportFor(doc, undefined, 'slice', !continuation && doc.getText().length >= OPENING_MIN_CHARS);
+    const result = await reportFor(doc, undefined, 'slice', { deferChecks: !continuation && doc.getText().length >= OPENING_MIN_CHARS });
     const T1 = performance.now();
     const latest = documents.get(uri);
     // A newer version arrived while we waited: its own debounce will publish.
@@ -250,8 +277,13 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     // cache keeps every finished matrix, so each pass gets further) until the report is complete.
     if (result.report.incomplete) {
       continuing.add(uri);
+      unfinished.add(uri);
       scheduleDiagnostics(uri, 0);
-    } else if (timers.size === 0) idle.touch();
+    } else {
+      // Lenses asked for while the document was being analysed said "analysing…": ask again.
+      if (unfinished.delete(uri) && canRefreshLenses) connection.sendRequest('workspace/codeLens/refresh').catch(() => undefined);
+      if (timers.size === 0) idle.touch();
+    }
   }
 
   function scheduleDiagnostics(uri: string, delay = DIAGNOSTIC_DEBOUNCE_MS): void {
@@ -272,6 +304,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     canPullConfiguration = workspace?.configuration === true;
     canRegisterConfigurationChange = workspace?.didChangeConfiguration?.dynamicRegistration === true;
     canResolveActionEdits = params.capabilities.textDocument?.codeAction?.resolveSupport?.properties?.includes('edit') === true;
+    canRefreshLenses = workspace?.codeLens?.refreshSupport === true;
     ready = initAnalysis().catch((err: unknown) => log(`the source parsers did not load: ${String(err)}`));
     return {
       capabilities: {
@@ -323,6 +356,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       justOpened.delete(e.document.uri);
       opened.delete(e.document.uri);
       continuing.delete(e.document.uri);
+      unfinished.delete(e.document.uri);
       if (timers.size === 0) idle.touch();
       settingsCache.delete(e.document.uri);
       void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
@@ -333,7 +367,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('hover', null, async (params, token) => {
       const doc = documents.get(params.textDocument.uri);
       if (!doc) return null;
-      const result = await reportFor(doc, token);
+      const result = await reportFor(doc, token, 'interactive', { focus: doc.offsetAt(params.position) });
       if (!result) return null;
       const hover = hoverAt(result.report, doc.getText(), doc.offsetAt(params.position), result.settings.analysis);
       return hover ? toHover(doc, hover) : null;
@@ -344,7 +378,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('codeLens', [], async (params, token) => {
       const doc = documents.get(params.textDocument.uri);
       if (!doc) return [];
-      const result = await reportFor(doc, token);
+      const result = await reportFor(doc, token, 'interactive');
       if (!result || !result.settings.codeLensEnabled) return [];
       return lensesOf(result.report, result.settings.analysis.precision).map((lens) => toLens(doc, lens));
     }),
@@ -361,7 +395,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   }
 
   async function plainActions(doc: TextDocument, range: Range, only: string[], diagnosticCodes: string[], token?: CancellationToken) {
-    const result = await reportFor(doc, token);
+    const result = await reportFor(doc, token, 'interactive', { focus: doc.offsetAt(range.start) });
     const language = languageOf(doc);
     if (!result || !language) return null;
     const actions = codeActionsAt(result.report, doc.getText(), language, {
@@ -426,7 +460,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('transitionText', { text: null, error: 'The request failed; see the server log.' } as TransitionTextRequestResult, async (params: TransitionTextRequestParams): Promise<TransitionTextRequestResult> => {
       const doc = typeof params?.uri === 'string' ? documents.get(params.uri) : undefined;
       if (!doc) return { text: null, error: 'That document is not open.' };
-      const result = await reportFor(doc);
+      const result = await reportFor(doc, undefined, 'command');
       const matrix = result?.report.matrices.find((m) => m.index === params.matrixIndex && m.role === 'state');
       const transition = matrix?.transition;
       if (!result || !matrix || !transition) return { text: null, error: 'No closed-form transition matrix for that matrix.' };
@@ -443,7 +477,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       const doc = documents.get(uri);
       const language = doc ? languageOf(doc) : null;
       if (!doc || !language) return null;
-      const result = await reportFor(doc);
+      const result = await reportFor(doc, undefined, 'command');
       const matrix = result?.report.matrices.find((m) => m.index === matrixIndex);
       if (!matrix) return null;
       const target = domain === 'continuous' || domain === 'discrete' ? domain : matrix.domain === 'continuous' ? 'discrete' : 'continuous';
@@ -459,7 +493,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('report', null as ReportRequestResult | null, async (params: ReportRequestParams) => {
       const doc = documents.get(params.uri);
       if (!doc) return null;
-      const result = await reportFor(doc);
+      const result = await reportFor(doc, undefined, 'command');
       if (!result) return null;
       const name = decodeURIComponent(params.uri.split('/').pop() ?? params.uri);
       return reportMarkdown(result.report, name, params.matrixIndex, result.settings.analysis.precision);
@@ -479,7 +513,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const doc = documents.get(uri);
     const language = doc ? languageOf(doc) : null;
     if (!doc || !language) return null;
-    const result = await reportFor(doc);
+    const result = await reportFor(doc, undefined, 'command');
     const matrix = result?.report.matrices.find((m) => m.index === matrixIndex && m.role === 'state');
     if (!result || !matrix) return null;
     return { doc, language, report: result.report, settings: result.settings, matrix };
