@@ -251,6 +251,22 @@ describe('code lenses and commands', () => {
     expect(missing.error).toMatch(/No closed-form/);
   });
 
+  it('a file with more than 200 state matrices gets verdict lenses whose titles come from codeLens/resolve', async () => {
+    // Invented one-line matrices; A_k = [[−k, 0], [0, −2k]] has eigenvalues −k and −2k, so its
+    // slowest time constant is τ = 1/k (standard, τ = 1/|λ|).
+    const text = Array.from({ length: 210 }, (_, i) => `A_${i + 1} = [[-${i + 1}, 0], [0, -${2 * (i + 1)}]]`).join('\n') + '\n';
+    const uri = `file:///fixtures/${opened++}/many.py`;
+    await client.open(uri, 'python', text);
+    await client.diagnostics(uri, 1);
+    const lenses = await lensesOf(uri);
+    expect(lenses).toHaveLength(210);
+    expect(lenses.every((l) => l.command === undefined && l.data !== undefined)).toBe(true);
+    const resolved = (await client.connection.sendRequest('codeLens/resolve', lenses[1])) as CodeLens;
+    expect(resolved.command?.title).toBe('stable · slowest τ = 500 ms (λ = −2)');
+    expect(resolved.command?.command).toBe('eigenlens.showFullAnalysis');
+    expect(resolved.range).toEqual(lenses[1].range);
+  });
+
   it('unstable model file lens names the growing mode', async () => {
     const lenses = await checkLenses('hover_wheel.lti');
     expect(lenses[0].command?.title).toBe('⚠ unstable: λ ≈ 10.7 doubles every 64.8 ms');
@@ -325,6 +341,17 @@ print(float(np.max(np.abs(ns['phi_A'](0.7) - ref)) / max(1.0, float(np.max(np.ab
     const twice = applyAction(after, regenerate!);
     expect(twice.match(/def phi_A\(/g)).toHaveLength(1);
     expect(twice).toBe(after);
+  });
+
+  it('a client that cannot resolve edits gets the every-matrix source action only when it asks for source actions', async () => {
+    const { uri, text, cursor } = await openFixture('action_phi.py');
+    const position = positionAt(text, cursor);
+    const ask = async (only?: string[]) =>
+      (await client.connection.sendRequest('textDocument/codeAction', { textDocument: { uri }, range: { start: position, end: position }, context: { diagnostics: [], ...(only ? { only } : {}) } })) as CodeAction[];
+    expect((await ask()).some((a) => a.kind === 'source.eigenlens.insertAllTransitions')).toBe(false);
+    const source = (await ask(['source'])).find((a) => a.kind === 'source.eigenlens.insertAllTransitions')!;
+    expect(source.title).toBe('Insert the transition function of every state matrix (1)');
+    expect(applyAction(text, source)).toContain('def phi_A(t):');
   });
 
   it('a client that resolves edits gets the Φ(t) actions without edits, and codeAction/resolve fills in the same edit', async () => {

@@ -1,8 +1,10 @@
 // Big-file limits over stdio (a script, not a timed test): a ~2 MB Python file of generated
-// matrices, a 200×200 literal, and 10,000 one-line matrices. For each, measures time to the
-// first diagnostics, then hover, codeLens and codeAction latencies, and the server's VmRSS.
-// Targets (common practice for editor responsiveness): every answer within 250 ms after the
-// diagnostics arrive, memory under 200 MB. Writes test/robustness/limits-results.json.
+// matrices, a 200×200 literal, and 10,000 one-line matrices. For each: time to the first and
+// to the complete diagnostics, hover, codeLens and codeAction latencies both while the server
+// is still analysing the file (right after its first diagnostics) and after, one edit, and
+// the server's memory (VmRSS after a quiet 3 s, VmHWM peak). Targets (common practice for
+// editor responsiveness): every answer within 250 ms, memory under 200 MB.
+// Writes test/robustness/limits-results.json.
 // All data is generated here (invented matrices). Usage: node test/robustness/big-files.mjs
 import { spawn } from 'node:child_process';
 import { readFileSync, writeFileSync } from 'node:fs';
@@ -39,10 +41,15 @@ function manyOneLiners() {
   return lines.join('\n') + '\n';
 }
 
-function rssMb(pid) {
-  const m = /VmRSS:\s+(\d+) kB/.exec(readFileSync(`/proc/${pid}/status`, 'utf8'));
-  return m ? Number(m[1]) / 1024 : NaN;
+
+function memory(pid) {
+  const status = readFileSync(`/proc/${pid}/status`, 'utf8');
+  const kb = (key) => Number(new RegExp(`^${key}:\\s+(\\d+) kB`, 'm').exec(status)?.[1] ?? NaN) / 1024;
+  return { rss: kb('VmRSS'), peak: kb('VmHWM') };
 }
+
+/** The document-level note of a pass that left work for later passes. */
+const pending = (p) => p.diagnostics.some((d) => d.code === 'analysis-limit' && d.range.start.line === 0 && d.range.end.line === 0 && d.range.end.character === 0 && /time budget|still analysing/.test(d.message));
 
 async function measure(label, text) {
   const child = spawn(process.execPath, [...(process.env.EIGENLENS_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=dist/prof'] : []), join('dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', process.env.EIGENLENS_TRACE ? 'inherit' : 'pipe'] });
@@ -51,7 +58,7 @@ async function measure(label, text) {
   let onDiag = null;
   conn.onNotification('textDocument/publishDiagnostics', (p) => {
     diag.push(p);
-    onDiag?.();
+    onDiag?.(p);
   });
   conn.onRequest('workspace/configuration', (p) => p.items.map(() => null));
   conn.onRequest('client/registerCapability', () => null);
@@ -61,9 +68,16 @@ async function measure(label, text) {
   await conn.sendNotification('initialized', {});
   const uri = `file:///limits/${label.replace(/\W+/g, '_')}.py`;
   const t0 = performance.now();
-  const arrived = new Promise((resolve) => (onDiag = resolve));
+  const until = (test) =>
+    new Promise((resolve) => {
+      const last = diag.at(-1);
+      if (last && test(last)) return resolve(last);
+      onDiag = (p) => test(p) && resolve(p);
+      setTimeout(() => resolve(null), 120_000);
+    });
+  const first = until(() => true);
   await conn.sendNotification('textDocument/didOpen', { textDocument: { uri, languageId: 'python', version: 1, text } });
-  await Promise.race([arrived, new Promise((r) => setTimeout(r, 60_000))]);
+  await first;
   const diagnosticsMs = performance.now() - t0;
   const timed = async (method, params) => {
     const s = performance.now();
@@ -74,21 +88,32 @@ async function measure(label, text) {
   const mid = Math.floor(lines.length / 2);
   const lineOfA = lines.findIndex((l, i) => i >= mid && /^A/.test(l));
   const position = { line: lineOfA >= 0 ? lineOfA : 2, character: 1 };
-  const hoverMs = await timed('textDocument/hover', { textDocument: { uri }, position });
-  const codeLensMs = await timed('textDocument/codeLens', { textDocument: { uri } });
-  const codeActionMs = await timed('textDocument/codeAction', { textDocument: { uri }, range: { start: position, end: position }, context: { diagnostics: [] } });
+  const requests = async () => ({
+    hoverMs: await timed('textDocument/hover', { textDocument: { uri }, position }),
+    codeLensMs: await timed('textDocument/codeLens', { textDocument: { uri } }),
+    codeActionMs: await timed('textDocument/codeAction', { textDocument: { uri }, range: { start: position, end: position }, context: { diagnostics: [] } }),
+  });
+  // While the server is still analysing the document (right after its first diagnostics) …
+  const during = await requests();
+  // … and once every pass is done.
+  await until((p) => p.version === 1 && !pending(p));
+  const completeMs = performance.now() - t0;
+  const after = await requests();
   // One edit, then diagnostics again (cached matrices elsewhere in the file).
   const e0 = performance.now();
-  const again = new Promise((resolve) => (onDiag = resolve));
+  const again = until((p) => p.version === 2);
   await conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: 2 }, contentChanges: [{ range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, text: '# edit\n' }] });
-  await Promise.race([again, new Promise((r) => setTimeout(r, 60_000))]);
+  await again;
   const editDiagnosticsMs = performance.now() - e0;
-  const rss = rssMb(child.pid);
+  await until((p) => p.version === 2 && !pending(p));
+  // Quiet for a while, as an editor is between edits: the server's idle collection runs.
+  await new Promise((r) => setTimeout(r, 3000));
+  const mem = memory(child.pid);
   await conn.sendRequest('shutdown').catch(() => {});
   await conn.sendNotification('exit').catch(() => {});
   await new Promise((r) => (child.exitCode !== null ? r() : child.on('exit', r)));
   conn.dispose();
-  return { label, chars: text.length, diagnosticsMs, editDiagnosticsMs, hoverMs, codeLensMs, codeActionMs, rssMb: rss, diagnosticsCount: diag.at(-1)?.diagnostics.length ?? null };
+  return { label, chars: text.length, diagnosticsMs, completeMs, during, after, editDiagnosticsMs, rssMb: mem.rss, peakRssMb: mem.peak, diagnosticsCount: diag.at(-1)?.diagnostics.length ?? null };
 }
 
 const cases = [
@@ -98,11 +123,14 @@ const cases = [
 ];
 const results = [];
 for (const [label, text] of cases) results.push(await measure(label, text));
-const fmt = (x) => (typeof x === 'number' ? x.toFixed(0).padStart(8) : String(x).padStart(8));
-console.log(`${'case'.padEnd(26)}${'chars'.padStart(9)}${'diag'.padStart(8)}${'editDiag'.padStart(9)}${'hover'.padStart(8)}${'lens'.padStart(8)}${'action'.padStart(8)}${'RSS MB'.padStart(8)}  within`);
+const fmt = (x, w = 8) => (typeof x === 'number' ? x.toFixed(0) : String(x)).padStart(w);
+console.log('Requests (hover, code lens, code action) in ms, while the server is still analysing the file and after; memory after a quiet 3 s.');
+console.log(`${'case'.padEnd(26)}${'chars'.padStart(9)}${'first'.padStart(7)}${'done'.padStart(7)}${'edit'.padStart(6)}${'  during h/l/a'.padEnd(17)}${'  after h/l/a'.padEnd(16)}${'RSS'.padStart(6)}${'peak'.padStart(6)}  within`);
 for (const r of results) {
-  const ok = [r.hoverMs, r.codeLensMs, r.codeActionMs].every((x) => x <= TARGET_MS) && r.rssMb < RSS_LIMIT_MB;
-  r.withinTargets = ok;
-  console.log(`${r.label.padEnd(26)}${fmt(r.chars).padStart(9)}${fmt(r.diagnosticsMs)}${fmt(r.editDiagnosticsMs).padStart(9)}${fmt(r.hoverMs)}${fmt(r.codeLensMs)}${fmt(r.codeActionMs)}${fmt(r.rssMb)}  ${ok ? 'yes' : 'NO'}`);
+  const all = [r.during, r.after].flatMap((x) => [x.hoverMs, x.codeLensMs, x.codeActionMs]);
+  r.slowestRequestMs = Math.max(...all);
+  r.withinTargets = r.slowestRequestMs <= TARGET_MS && r.peakRssMb < RSS_LIMIT_MB;
+  const hla = (x) => `${fmt(x.hoverMs, 5)}${fmt(x.codeLensMs, 5)}${fmt(x.codeActionMs, 5)}`;
+  console.log(`${r.label.padEnd(26)}${fmt(r.chars, 9)}${fmt(r.diagnosticsMs, 7)}${fmt(r.completeMs, 7)}${fmt(r.editDiagnosticsMs, 6)}  ${hla(r.during)}  ${hla(r.after)}${fmt(r.rssMb, 6)}${fmt(r.peakRssMb, 6)}  ${r.withinTargets ? 'yes' : 'NO'}`);
 }
-writeFileSync(join('test', 'robustness', 'limits-results.json'), JSON.stringify({ targetMs: TARGET_MS, rssLimitMb: RSS_LIMIT_MB, node: process.version, results }, null, 2) + '\n');
+writeFileSync(join('test', 'robustness', 'limits-results.json'), JSON.stringify({ targetMs: TARGET_MS, rssLimitMb: RSS_LIMIT_MB, node: process.version, date: new Date().toISOString(), results }, null, 2) + '\n');

@@ -45,6 +45,9 @@ export interface ActionRequest {
   codePrecision?: number;
 }
 
+/** The "every state matrix" source action is offered up to this many matrices. */
+export const MAX_INSERT_ALL = 200;
+
 /** The methods offered as insert actions, in menu order (first-order hold only through eigenlens/discretize). */
 export const INSERT_METHODS: readonly DiscretizationMethod[] = ['zoh', 'tustin', 'euler', 'backward-euler'];
 
@@ -94,7 +97,9 @@ export function codeActionsAt(report: DocumentReport, text: string, language: So
   }
   if (supportsPhiCode(language) && wanted('source', request.only)) {
     const withClosedForm = states.filter((m) => m.closedFormAvailable);
-    if (withClosedForm.length > 0) {
+    // One function per matrix is code for people to read: beyond a few hundred it is neither
+    // readable nor quick to build (each needs its closed form), so it is not offered.
+    if (withClosedForm.length > 0 && withClosedForm.length <= MAX_INSERT_ALL) {
       out.push({
         title: `Insert the transition function of every state matrix (${withClosedForm.length})`,
         kind: 'source',

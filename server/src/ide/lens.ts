@@ -15,13 +15,35 @@ export interface PlainLens {
   /** Arguments after the document URI (the lsp layer prepends the URI where the command takes one). */
   args: unknown[];
   needsUri: boolean;
+  /** The title is left for codeLens/resolve (see COMPACT_LENSES_ABOVE); `verdictLens` fills it. */
+  unresolved?: boolean;
 }
+
+/** The verdict lens of one state matrix, as a resolve request completes it. */
+export function verdictLens(report: DocumentReport, matrixIndex: number, precision: number): PlainLens | null {
+  const matrix = report.matrices.find((m) => m.index === matrixIndex && m.role === 'state');
+  if (!matrix) return null;
+  return { span: matrix.nameSpan ?? matrix.span, title: lensTitle(matrix, precision), command: Commands.showFullAnalysis, args: [matrix.index], needsUri: true };
+}
+
+/**
+ * Above this many state matrices a document gets the verdict lens only (no copy or domain
+ * lens: those stay in the command palette and the code actions), and the lens titles are
+ * filled in when the editor shows them (codeLens/resolve): 30,000 lenses of a 10,000-matrix
+ * file would take longer to build and send than an editor waits.
+ */
+export const COMPACT_LENSES_ABOVE = 200;
 
 export function lensesOf(report: DocumentReport, precision: number): PlainLens[] {
   const out: PlainLens[] = [];
-  for (const matrix of report.matrices) {
-    if (matrix.role !== 'state') continue;
+  const states = report.matrices.filter((m) => m.role === 'state');
+  const compact = states.length > COMPACT_LENSES_ABOVE;
+  for (const matrix of states) {
     const span = matrix.nameSpan ?? matrix.span;
+    if (compact) {
+      out.push({ span, title: '', command: Commands.showFullAnalysis, args: [matrix.index], needsUri: true, unresolved: true });
+      continue;
+    }
     out.push({ span, title: lensTitle(matrix, precision), command: Commands.showFullAnalysis, args: [matrix.index], needsUri: true });
     // The text is fetched when the lens is clicked (eigenlens/transitionText): building every
     // closed form of a file to fill lens arguments would cost more than the whole analysis.

@@ -50,6 +50,7 @@ export function toHover(doc: TextDocument, h: HoverResult): Hover {
 
 export function toLens(doc: TextDocument, lens: PlainLens): CodeLens {
   const args = lens.needsUri ? [doc.uri, ...lens.args] : lens.args;
+  if (lens.unresolved) return { range: toRange(doc, lens.span), data: { uri: doc.uri, version: doc.version, matrixIndex: lens.args[0] } };
   return { range: toRange(doc, lens.span), command: { title: lens.title, command: lens.command, arguments: args } };
 }
 

@@ -13,6 +13,7 @@
  */
 import {
   type CodeAction,
+  type CodeLens,
   CodeActionKind,
   type Range,
   ErrorCodes,
@@ -55,7 +56,7 @@ import { CODE_METHODS, cInitializerText, discreteCodeFor, discreteInsertEdit } f
 import type { DiscretizationMethod } from '../engine/discretize';
 import { DEFAULT_IDE_SETTINGS, settingsFromUser, type IdeSettings } from '../ide/settings';
 import { hoverAt } from '../ide/hover';
-import { lensesOf } from '../ide/lens';
+import { lensesOf, verdictLens } from '../ide/lens';
 import { diagnosticsOf } from '../ide/diagnostics';
 import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
@@ -310,7 +311,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       capabilities: {
         textDocumentSync: { openClose: true, change: TextDocumentSyncKind.Incremental },
         hoverProvider: true,
-        codeLensProvider: { resolveProvider: false },
+        codeLensProvider: { resolveProvider: true },
         codeActionProvider: { codeActionKinds: [CodeActionKind.QuickFix, CodeActionKind.RefactorRewrite, ACTION_KINDS.source], resolveProvider: true },
         executeCommandProvider: { commands: [...SERVER_COMMANDS] },
       },
@@ -384,6 +385,17 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     }),
   );
 
+  connection.onCodeLensResolve(
+    guarded('codeLensResolve', null as unknown as CodeLens, async (lens: CodeLens) => {
+      const data = lens.data as { uri?: unknown; matrixIndex?: unknown } | undefined;
+      const doc = typeof data?.uri === 'string' ? documents.get(data.uri) : undefined;
+      if (!doc || typeof data?.matrixIndex !== 'number') return lens;
+      const result = await reportFor(doc, undefined, 'interactive', { focus: doc.offsetAt(lens.range.start) });
+      const plain = result ? verdictLens(result.report, data.matrixIndex, result.settings.analysis.precision) : null;
+      return plain ? { ...toLens(doc, plain), range: lens.range } : { ...lens, command: { title: 'eigenlens: the document changed', command: '' } };
+    }),
+  );
+
   /** Where a deferred code action came from, so that codeAction/resolve can build it again. */
   interface DeferredAction {
     uri: string;
@@ -417,7 +429,11 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       const actions = await plainActions(doc, params.range, only, codes, token);
       if (!actions) return [];
       // Actions that write closed forms are built only when chosen, where the client allows it.
-      return actions.map((a) => {
+      // A client that cannot defer them builds every closed form of the file for the "every
+      // matrix" source action, so it gets that one only when it asks for source actions.
+      const eager = !canResolveActionEdits;
+      const wantsSource = only.some((o) => o === 'source' || o.startsWith('source.'));
+      return actions.filter((a) => !(eager && a.kind === 'source' && !wantsSource)).map((a) => {
         const data: DeferredAction | undefined = canResolveActionEdits ? { uri: doc.uri, version: doc.version, range: params.range, only, diagnosticCodes: codes, title: a.title } : undefined;
         return toCodeAction(doc, a, ours, data);
       });

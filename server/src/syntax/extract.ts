@@ -34,6 +34,8 @@ const literalMemo = new LiteralMemo();
  * text itself; the texts are the documents' own strings, so holding them costs nothing extra.
  */
 const EXTRACTED_KEEP = 16;
+/** And texts of at most this many characters in all (an extraction of a 2 MB file holds ~10,000 matrices); the newest is always kept. */
+const EXTRACTED_KEEP_CHARS = 3_000_000;
 const extracted: { key: string; text: string; file: ExtractedFile }[] = [];
 let extractedHits = 0;
 let entryEdits = 0;
@@ -83,7 +85,9 @@ export function extract(text: string, language: SourceLanguage, opts?: ExtractOp
   }
   file ??= extractFresh(text, language, opts);
   extracted.push({ key, text, file });
-  if (extracted.length > EXTRACTED_KEEP) extracted.shift();
+  let chars = 0;
+  for (const e of extracted) chars += e.text.length;
+  while (extracted.length > 1 && (extracted.length > EXTRACTED_KEEP || chars > EXTRACTED_KEEP_CHARS)) chars -= extracted.shift()!.text.length;
   return file;
 }
 
