@@ -291,8 +291,9 @@ export async function memoryRun(root, { log }) {
     // Every file analysed completely, so the memory figure covers all 3,000 matrices.
     for (const p of pending) await untilComplete(session, p.uri, p.first, 1);
     const allDiagnosticsMs = performance.now() - t0;
-    // Settle: let a pending garbage collection or timer finish before reading memory.
-    await new Promise((r) => setTimeout(r, 500));
+    // Settle as an editor does between edits: after 2 s of quiet the server runs its idle
+    // collection (lsp/idleCollect.ts); read memory after 3 s.
+    await new Promise((r) => setTimeout(r, 3000));
     const mem = memoryOf(session.proc.pid);
     mem.serverCpuSeconds = cpuSecondsOf(session.proc.pid);
     // The server's own split: JS heap, memory outside it (tree-sitter's WASM heap), caches.

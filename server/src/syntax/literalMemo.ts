@@ -43,15 +43,18 @@ export interface MemoLiteralInput extends Omit<LiteralInput, 'top'> {
 interface MemoEntry {
   /** Constants read while building, with what they were (undefined: not defined). */
   reads: Array<[string, EntryValue | undefined]>;
+  /**
+   * The matrix as handed out last, at offset `base` with `pragma`. It is handed out again while
+   * neither changed (every matrix above an edit, and all of them after a same-length edit), so
+   * an edit allocates only for what moved, later stages can key caches on the object, and the
+   * memo holds no second copy of the entries of the open documents.
+   */
   matrix: MatrixLiteral | null;
+  base: number;
+  pragma: MatrixLiteral['pragma'];
+  /** Problems relative to `base` 0. */
   problems: Problem[];
   size: number;
-  /**
-   * The copy handed out last, at `lastBase` with `lastPragma`: handed out again while neither
-   * changed (every matrix above an edit, and all of them after a same-length edit), so an
-   * edit allocates only for what moved, and later stages can key caches on the object.
-   */
-  last?: { base: number; pragma: MatrixLiteral['pragma']; matrix: MatrixLiteral };
 }
 
 function samePragma(a: MatrixLiteral['pragma'], b: MatrixLiteral['pragma']): boolean {
@@ -208,9 +211,11 @@ export class LiteralMemo {
       this.stats.hits++;
       problems.push(...movedProblems(found.problems, base));
       if (!found.matrix) return null;
-      if (found.last && found.last.base === base && samePragma(found.last.pragma, pragma)) return found.last.matrix;
-      const copy = moved(found.matrix, base, pragma);
-      found.last = { base, pragma, matrix: copy };
+      if (found.base === base && samePragma(found.pragma, pragma)) return found.matrix;
+      const copy = moved(found.matrix, base - found.base, pragma);
+      found.matrix = copy;
+      found.base = base;
+      found.pragma = pragma;
       return copy;
     }
 
@@ -223,7 +228,9 @@ export class LiteralMemo {
       if (found) this.forget(key, found);
       const entry: MemoEntry = {
         reads: [...tracked.reads],
-        matrix: matrix ? moved(matrix, -base, null) : null,
+        matrix,
+        base,
+        pragma,
         problems: movedProblems(local, -base),
         size: key.length,
       };
