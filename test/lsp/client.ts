@@ -25,6 +25,10 @@ export interface TestClient {
   close(uri: string): Promise<void>;
   /** Resolves with the first diagnostics published for `uri` at `version` (or later). */
   diagnostics(uri: string, version: number, timeoutMs?: number): Promise<PublishDiagnosticsParams>;
+  /** Resolves with the newest diagnostics published for `uri` that satisfy `test` (waiting for one). */
+  diagnosticsWhere(uri: string, test: (p: PublishDiagnosticsParams) => boolean, timeoutMs?: number): Promise<PublishDiagnosticsParams>;
+  /** Every publication for `uri` so far, oldest first. */
+  publishedFor(uri: string): PublishDiagnosticsParams[];
   versionOf(uri: string): number;
   shutdown(): Promise<void>;
 }
@@ -59,6 +63,26 @@ export async function startClient(settings: Record<string, unknown> = {}, option
       await connection.sendNotification('textDocument/didClose', { textDocument: { uri } });
     },
     versionOf: (uri) => versions.get(uri) ?? 0,
+    publishedFor: (uri) => published.filter((p) => p.uri === uri).reverse(),
+    diagnosticsWhere(uri, test, timeoutMs = 20_000) {
+      return new Promise((resolve, reject) => {
+        const timer = setTimeout(() => reject(new Error(`no matching diagnostics for ${uri} within ${timeoutMs} ms; server stderr: ${stderr.join('')}`)), timeoutMs);
+        const look = () => {
+          const hit = published.find((p) => p.uri === uri && test(p));
+          if (hit) {
+            clearTimeout(timer);
+            resolve(hit);
+            return true;
+          }
+          return false;
+        };
+        if (look()) return;
+        const waiter = () => {
+          if (look()) waiters.splice(waiters.indexOf(waiter), 1);
+        };
+        waiters.push(waiter);
+      });
+    },
     diagnostics(uri, version, timeoutMs = 20_000) {
       return new Promise((resolve, reject) => {
         const timer = setTimeout(() => reject(new Error(`no diagnostics for ${uri} v${version} within ${timeoutMs} ms; server stderr: ${stderr.join('')}`)), timeoutMs);

@@ -12,6 +12,8 @@ import { transformSync } from 'esbuild';
 import type { CodeAction, CodeLens, Diagnostic, Hover, MarkupContent, TextDocumentEdit } from 'vscode-languageserver-protocol';
 import { applyTextEdits, positionAt, startClient, type TestClient } from './client';
 import { expectFile, readFixture, scrubPlot } from './expect';
+// @ts-expect-error plain JavaScript module without type declarations
+import { generateSourceFile } from '../bench/generate.mjs';
 
 const LANGUAGE: Record<string, string> = { '.py': 'python', '.ts': 'typescript', '.lti': 'lti', '.js': 'javascript' };
 const hasScipy = spawnSync('python3', ['-c', 'import numpy, scipy.linalg']).status === 0;
@@ -208,6 +210,31 @@ describe('diagnostics', () => {
     expect(codes.has('non-square-state')).toBe(true);
     const unknown = diagnostics.find((d) => d.code === 'unknown-name')!;
     expect(unknown.severity).toBe(1);
+  });
+
+  it('a large file: the first lines come first, and what they show is exactly what the full analysis shows there', async () => {
+    // Invented generated file (test/bench/generate.mjs): 3,000 lines, 150 matrices of mixed kinds.
+    const { text } = generateSourceFile(77, 'python', { lines: 3000, count: 150 }) as { text: string };
+    const uri = `file:///fixtures/${opened++}/large.py`;
+    await client.open(uri, 'python', text);
+    const pendingNote = (p: { diagnostics: Diagnostic[] }) => p.diagnostics.find((d) => d.code === 'analysis-limit' && d.range.start.line === 0 && d.range.end.character === 0 && d.range.end.line === 0);
+    const complete = await client.diagnosticsWhere(uri, (p) => p.version === 1 && !pendingNote(p), 60_000);
+    const passes = client.publishedFor(uri);
+    const first = passes[0];
+    const note = pendingNote(first)!;
+    expect(note.message).toMatch(/still analysing this file \(3,00\d lines\): the diagnostics so far cover lines 1–(\d+)/);
+    const covered = Number(/lines 1–(\d+)/.exec(String(note.message))![1]);
+    expect(covered).toBeGreaterThan(50);
+    expect(covered).toBeLessThan(1000);
+    const key = (d: Diagnostic) => `${d.code}@${d.range.start.line}:${d.range.start.character}-${d.range.end.line}:${d.range.end.character} ${typeof d.message === 'string' ? d.message : d.message.value}`;
+    const finalKeys = new Set(complete.diagnostics.map(key));
+    const early = first.diagnostics.filter((d) => d !== note);
+    expect(early.length).toBeGreaterThan(0);
+    // Nothing the first pass said is changed or withdrawn by the full analysis …
+    for (const d of early) expect(finalKeys.has(key(d)), key(d)).toBe(true);
+    // … and everything it said lies in the lines it claims to cover.
+    for (const d of early) expect(d.range.end.line).toBeLessThan(covered);
+    expect(passes.length).toBeGreaterThan(1);
   });
 
   it('a newer version replaces the older diagnostics (debounced, versioned)', async () => {

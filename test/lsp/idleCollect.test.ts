@@ -1,0 +1,34 @@
+// The idle collector (lsp/idleCollect.ts): one full collection after a quiet period, none
+// while work is pending, and garbage really goes (measured with a FinalizationRegistry, the
+// engine's own report that an object was collected).
+import { describe, expect, it } from 'vitest';
+import { IdleCollector } from '../../server/src/lsp/idleCollect';
+
+const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
+
+describe('IdleCollector', () => {
+  it('collects once after a quiet period, and the garbage is gone', async () => {
+    const collected: string[] = [];
+    const registry = new FinalizationRegistry<string>((name) => collected.push(name));
+    (() => {
+      registry.register({ big: new Array(100_000).fill(1) }, 'garbage');
+    })();
+    const idle = new IdleCollector(20);
+    idle.touch();
+    idle.touch();
+    await sleep(80);
+    expect(idle.collections).toBe(1);
+    await sleep(20); // finalization callbacks run as tasks after the collection
+    expect(collected).toContain('garbage');
+    await sleep(60);
+    expect(idle.collections).toBe(1); // nothing new happened, so no second collection
+  });
+
+  it('does not collect while work is pending', async () => {
+    const idle = new IdleCollector(20);
+    idle.touch();
+    idle.cancel();
+    await sleep(60);
+    expect(idle.collections).toBe(0);
+  });
+});
