@@ -80,7 +80,7 @@ const MAX_ENTRIES = 20_000;
 const MAX_CHARS = 1_000_000;
 
 /** A read-only view of the scope that records every lookup. Only `get` is used by the evaluator; the rest delegate. */
-class RecordingScope implements ReadonlyMap<string, EntryValue> {
+class ReadTrackingScope implements ReadonlyMap<string, EntryValue> {
   readonly reads = new Map<string, EntryValue | undefined>();
   constructor(private readonly inner: ReadonlyMap<string, EntryValue>) {}
   get(key: string): EntryValue | undefined {
@@ -220,7 +220,7 @@ export class LiteralMemo {
     }
 
     this.stats.misses++;
-    const tracked = new RecordingScope(scope);
+    const tracked = new ReadTrackingScope(scope);
     const local: Problem[] = [];
     const matrix = buildMatrix(text, lang, tracked, { ...rest, top: top() }, local);
     problems.push(...local);
