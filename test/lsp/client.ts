@@ -44,6 +44,23 @@ export async function startClient(settings: Record<string, unknown> = {}, option
   const waiters: (() => void)[] = [];
   const versions = new Map<string, number>();
   const appliedEdits: WorkspaceEdit[] = [];
+  /** The newest publication for `uri` that passes `test`, now or when it arrives. */
+  const waitForDiagnostics = (uri: string, test: (p: PublishDiagnosticsParams) => boolean, timeoutMs: number, what: string) =>
+    new Promise<PublishDiagnosticsParams>((resolve, reject) => {
+      const timer = setTimeout(() => reject(new Error(`no ${what} for ${uri} within ${timeoutMs} ms; server stderr: ${stderr.join('')}`)), timeoutMs);
+      const look = () => {
+        const hit = published.find((p) => p.uri === uri && test(p));
+        if (!hit) return false;
+        clearTimeout(timer);
+        resolve(hit);
+        return true;
+      };
+      if (look()) return;
+      const waiter = () => {
+        if (look()) waiters.splice(waiters.indexOf(waiter), 1);
+      };
+      waiters.push(waiter);
+    });
   const client: TestClient = {
     connection,
     process: child,
@@ -64,44 +81,8 @@ export async function startClient(settings: Record<string, unknown> = {}, option
     },
     versionOf: (uri) => versions.get(uri) ?? 0,
     publishedFor: (uri) => published.filter((p) => p.uri === uri).reverse(),
-    diagnosticsWhere(uri, test, timeoutMs = 20_000) {
-      return new Promise((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error(`no matching diagnostics for ${uri} within ${timeoutMs} ms; server stderr: ${stderr.join('')}`)), timeoutMs);
-        const look = () => {
-          const hit = published.find((p) => p.uri === uri && test(p));
-          if (hit) {
-            clearTimeout(timer);
-            resolve(hit);
-            return true;
-          }
-          return false;
-        };
-        if (look()) return;
-        const waiter = () => {
-          if (look()) waiters.splice(waiters.indexOf(waiter), 1);
-        };
-        waiters.push(waiter);
-      });
-    },
-    diagnostics(uri, version, timeoutMs = 20_000) {
-      return new Promise((resolve, reject) => {
-        const timer = setTimeout(() => reject(new Error(`no diagnostics for ${uri} v${version} within ${timeoutMs} ms; server stderr: ${stderr.join('')}`)), timeoutMs);
-        const look = () => {
-          const hit = published.find((p) => p.uri === uri && (p.version ?? 0) >= version);
-          if (hit) {
-            clearTimeout(timer);
-            resolve(hit);
-            return true;
-          }
-          return false;
-        };
-        if (look()) return;
-        const waiter = () => {
-          if (look()) waiters.splice(waiters.indexOf(waiter), 1);
-        };
-        waiters.push(waiter);
-      });
-    },
+    diagnosticsWhere: (uri, test, timeoutMs = 20_000) => waitForDiagnostics(uri, test, timeoutMs, 'matching diagnostics'),
+    diagnostics: (uri, version, timeoutMs = 20_000) => waitForDiagnostics(uri, (p) => (p.version ?? 0) >= version, timeoutMs, `diagnostics v${version}`),
     async shutdown() {
       try {
         await connection.sendRequest('shutdown');
