@@ -33,6 +33,20 @@ describe('analysis cache', () => {
   });
 });
 
+describe('passes that run out of time', () => {
+  it('a model whose state matrix a pass did not reach gets its findings in the pass that does', () => {
+    // Same Kalman rank case as above (CHECKS, check 20): the double integrator with B = [[1],[0]]
+    // is uncontrollable and with C = [[0, 1]] unobservable.
+    const cache = new AnalysisCache();
+    const first = analyzeDocument(source, 'python', { ...DEFAULT_SETTINGS, timeBudgetMs: -1 }, { cache });
+    expect(first.incomplete).toBe(true);
+    expect(first.models[0].controllability).toBeNull();
+    const next = summary(source, cache);
+    expect(next).toEqual(summary(source));
+    expect(next.findings.map((f) => f.code)).toEqual(expect.arrayContaining(['uncontrollable-mode', 'unobservable-mode']));
+  });
+});
+
 describe('closed forms built on demand', () => {
   // Moler & Van Loan 1978 ("Nineteen dubious ways", the [[−49, 24], [−64, 31]] example):
   // e^{A} ≈ [[−0.735759, 0.551819], [−1.471518, 1.103638]] (CHECKS.md #1). A Jordan block

@@ -245,7 +245,10 @@ function cachedModelAnalysis(
   cache: AnalysisCache | undefined,
 ): ModelReport {
   const state = reports.get(model.state);
-  if (!cache || !state) return analyseModel(file, model, reports, settings);
+  // A state matrix a pass has not reached yet has no analysis: its model is analysed (to
+  // nothing) but not remembered, or the empty outcome would stand in for the real one later.
+  const notYet = state?.skipped.some((s) => s.startsWith(BUDGET_SKIP)) ?? false;
+  if (!cache || !state || notYet) return analyseModel(file, model, reports, settings);
   const names = MODEL_ROLES.map((r) => (model[r] === null || model[r] === undefined ? '-' : file.matrices[model[r] as number].name ?? '?'));
   let modelSettings = modelSettingsKeys.get(settings);
   if (modelSettings === undefined) {

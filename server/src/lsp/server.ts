@@ -205,6 +205,17 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     return { report, settings };
   }
 
+  /**
+   * A report in which the matrix with this index is analysed: 'interactive' with that matrix
+   * as focus when the latest report of the version knows where it is (a large document still
+   * being analysed answers at once), else a whole report ('command'; also when no index).
+   */
+  async function reportForMatrix(doc: TextDocument, matrixIndex: number | undefined) {
+    const cached = reports.get(doc.uri);
+    const known = matrixIndex === undefined || !cached || cached.version !== doc.version ? undefined : cached.report.matrices.find((m) => m.index === matrixIndex);
+    return known ? reportFor(doc, undefined, 'interactive', { focus: known.statementSpan.start }) : reportFor(doc, undefined, 'command');
+  }
+
   /** The report has analysed the state matrix whose statement contains `offset` (or there is none). */
   function coversFocus(report: DocumentReport, offset: number): boolean {
     const m = report.matrices.find((x) => x.statementSpan.start <= offset && offset <= x.statementSpan.end);
@@ -476,7 +487,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('transitionText', { text: null, error: 'The request failed; see the server log.' } as TransitionTextRequestResult, async (params: TransitionTextRequestParams): Promise<TransitionTextRequestResult> => {
       const doc = typeof params?.uri === 'string' ? documents.get(params.uri) : undefined;
       if (!doc) return { text: null, error: 'That document is not open.' };
-      const result = await reportFor(doc, undefined, 'command');
+      const result = await reportForMatrix(doc, params.matrixIndex);
       const matrix = result?.report.matrices.find((m) => m.index === params.matrixIndex && m.role === 'state');
       const transition = matrix?.transition;
       if (!result || !matrix || !transition) return { text: null, error: 'No closed-form transition matrix for that matrix.' };
@@ -493,7 +504,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       const doc = documents.get(uri);
       const language = doc ? languageOf(doc) : null;
       if (!doc || !language) return null;
-      const result = await reportFor(doc, undefined, 'command');
+      const result = await reportForMatrix(doc, matrixIndex);
       const matrix = result?.report.matrices.find((m) => m.index === matrixIndex);
       if (!matrix) return null;
       const target = domain === 'continuous' || domain === 'discrete' ? domain : matrix.domain === 'continuous' ? 'discrete' : 'continuous';
@@ -509,7 +520,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('report', null as ReportRequestResult | null, async (params: ReportRequestParams) => {
       const doc = documents.get(params.uri);
       if (!doc) return null;
-      const result = await reportFor(doc, undefined, 'command');
+      const result = await reportForMatrix(doc, params.matrixIndex);
       if (!result) return null;
       const name = decodeURIComponent(params.uri.split('/').pop() ?? params.uri);
       return reportMarkdown(result.report, name, params.matrixIndex, result.settings.analysis.precision);
@@ -529,7 +540,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const doc = documents.get(uri);
     const language = doc ? languageOf(doc) : null;
     if (!doc || !language) return null;
-    const result = await reportFor(doc, undefined, 'command');
+    const result = await reportForMatrix(doc, matrixIndex);
     const matrix = result?.report.matrices.find((m) => m.index === matrixIndex && m.role === 'state');
     if (!result || !matrix) return null;
     return { doc, language, report: result.report, settings: result.settings, matrix };
