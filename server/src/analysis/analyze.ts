@@ -27,6 +27,7 @@ import { lineColumnAt } from './position';
 import { analyseModel } from './modelAnalysis';
 
 export { DEFAULT_SETTINGS } from './settings';
+export { abandonExtractions, extractSlice, needsSlicedExtraction, type ExtractionProgress } from '../syntax/extract';
 
 /** Largest |entry| analysed: leaves about 150 decades of headroom for products and exponentials. */
 export const MAX_ENTRY_MAGNITUDE = 1e150;
@@ -126,6 +127,42 @@ export interface AnalyzeOptions {
    * analysed and checked whatever the budget says.
    */
   focus?: number;
+  /**
+   * The report of an earlier pass over the same text (a document analysed in slices, a hover
+   * between passes): every matrix it settled is taken over as it stands instead of being built
+   * again, so a pass costs what is new in it (see PassMemo). Ignored unless it was made from the
+   * same extraction, settings and cache.
+   */
+  previous?: DocumentReport;
+}
+
+/**
+ * What a pass leaves for the next pass over the same text. A model is settled once its state
+ * matrix was analysed (not left for later by the budget): its analysis and the findings it
+ * adds to its matrices are then final. A matrix report is settled when its own findings are
+ * final too — a state matrix once its closed form, if any, was checked; a model's other
+ * matrices (whose findings all come from the model) once the model is settled; any other
+ * matrix at once. Settled reports and models are reused as they are in later passes of the
+ * same extraction and settings; everything else is rebuilt, and a settled model adds its
+ * findings only to the reports rebuilt, so each is added once.
+ */
+interface PassMemo {
+  file: ExtractedFile;
+  settingsKey: string;
+  cache: AnalysisCache | undefined;
+  grouping: ReturnType<typeof groupModels>;
+  /** The model of each matrix index (from the grouping). */
+  modelOf: Map<number, ModelGroup>;
+  /** By matrix index: the settled report, else undefined. */
+  settled: (MatrixReport | undefined)[];
+  /** By state matrix index: the settled model's report and the findings it adds. */
+  models: Map<number, { report: ModelReport; findings: ModelOutcome['findings'] }>;
+}
+const passMemos = new WeakMap<DocumentReport, PassMemo>();
+
+/** Everything in the settings but the time budget (which only decides how far a pass gets). */
+function passSettingsKey(s: AnalysisSettings): string {
+  return JSON.stringify({ ...s, timeBudgetMs: 0 });
 }
 
 export function analyzeDocument(
@@ -146,13 +183,18 @@ export function analyzeDocument(
   }
   const file: ExtractedFile = extract(text, language, { stateMatrixNames: settings.stateMatrixNames });
   findings.push(...file.problems);
-  const grouping = groupModels(file, { defaultDomain: settings.defaultDomain, defaultPeriod: settings.defaultPeriod });
+  const passKey = passSettingsKey(settings);
+  const prior = options.previous ? passMemos.get(options.previous) : undefined;
+  const reuse = prior && prior.file === file && prior.settingsKey === passKey && prior.cache === options.cache ? prior : null;
+  const grouping = reuse ? reuse.grouping : groupModels(file, { defaultDomain: settings.defaultDomain, defaultPeriod: settings.defaultPeriod });
   findings.push(...grouping.problems);
 
-  const modelOf = new Map<number, ModelGroup>();
-  for (const m of grouping.models) {
-    for (const idx of [m.state, m.input, m.output, m.feedthrough, m.noiseInput, m.noiseCovariance]) {
-      if (idx !== null && idx !== undefined) modelOf.set(idx, m);
+  const modelOf = reuse ? reuse.modelOf : new Map<number, ModelGroup>();
+  if (!reuse) {
+    for (const m of grouping.models) {
+      for (const idx of [m.state, m.input, m.output, m.feedthrough, m.noiseInput, m.noiseCovariance]) {
+        if (idx !== null && idx !== undefined) modelOf.set(idx, m);
+      }
     }
   }
 
@@ -166,6 +208,11 @@ export function analyzeDocument(
     if (options.isCancelled?.()) break;
     const lit = file.matrices[index];
     if (lit.pragma?.ignore) continue;
+    const kept = reuse?.settled[index];
+    if (kept) {
+      matrices.push(kept);
+      continue;
+    }
     const model = modelOf.get(index) ?? null;
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
     const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, !focused && Date.now() > deadline);
@@ -204,11 +251,74 @@ export function analyzeDocument(
 
   const byIndex = new Map<number, MatrixReport>(matrices.map((m) => [m.index, m]));
   const models: ModelReport[] = [];
+  const outcomes = new Map<number, ModelOutcome>();
+  let cancelled = false;
   for (const m of grouping.models) {
-    if (options.isCancelled?.()) break;
-    models.push(cachedModelAnalysis(file, m, byIndex, settings, options.cache));
+    if (options.isCancelled?.()) {
+      cancelled = true;
+      break;
+    }
+    const done = reuse?.models.get(m.state);
+    if (done) {
+      // Its findings go to the reports rebuilt in this pass (the settled ones have them).
+      for (const { role, start, end, finding } of done.findings) {
+        const idx = m[role] as number;
+        const target = reuse!.settled[idx] ? null : byIndex.get(idx) ?? (reuse!.settled[m.state] ? null : byIndex.get(m.state));
+        const lit = file.matrices[idx];
+        if (target) target.findings.push({ ...finding, span: { start: lit.span.start + start, end: lit.span.start + end } });
+      }
+      models.push(done.report);
+      continue;
+    }
+    const { report, outcome } = cachedModelAnalysis(file, m, byIndex, settings, options.cache);
+    models.push(report);
+    if (outcome) outcomes.set(m.state, outcome);
   }
-  return { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 || deferred > 0 };
+  const result: DocumentReport = { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 || deferred > 0 };
+  if (!cancelled && matrices.length > 0) passMemos.set(result, settledParts(file, passKey, options.cache, grouping, modelOf, byIndex, built, models, outcomes, reuse));
+  return result;
+}
+
+/** The PassMemo of a finished pass (see there). */
+function settledParts(
+  file: ExtractedFile,
+  settingsKey: string,
+  cache: AnalysisCache | undefined,
+  grouping: PassMemo['grouping'],
+  modelOf: PassMemo['modelOf'],
+  byIndex: Map<number, MatrixReport>,
+  built: { report: MatrixReport; core: MatrixCore }[],
+  models: ModelReport[],
+  outcomes: Map<number, ModelOutcome>,
+  reuse: PassMemo | null,
+): PassMemo {
+  const settled: (MatrixReport | undefined)[] = new Array(file.matrices.length);
+  if (reuse) for (let i = 0; i < reuse.settled.length; i++) settled[i] = reuse.settled[i];
+  const analysed = new Set<number>();
+  for (const { report, core } of built) {
+    if (report.skipped.some((s) => s.startsWith(BUDGET_SKIP))) continue;
+    analysed.add(report.index);
+    if (core.closedForm === null || core.closedForm.settled) settled[report.index] = report;
+  }
+  const settledModels = new Map<number, { report: ModelReport; findings: ModelOutcome['findings'] }>(reuse?.models ?? []);
+  const modelReports = new Map(models.map((m) => [m.state, m]));
+  for (const m of grouping.models) {
+    const members = [m.input, m.output, m.feedthrough, m.noiseInput, m.noiseCovariance].filter((i): i is number => i !== null && i !== undefined);
+    if (settledModels.has(m.state)) {
+      for (const i of members) settled[i] ??= byIndex.get(i);
+      continue;
+    }
+    const report = modelReports.get(m.state);
+    const outcome = outcomes.get(m.state);
+    if (report && outcome && analysed.has(m.state)) {
+      settledModels.set(m.state, { report, findings: outcome.findings });
+      for (const i of members) settled[i] = byIndex.get(i);
+    } else {
+      settled[m.state] = undefined;
+      for (const i of members) settled[i] = undefined;
+    }
+  }
+  return { file, settingsKey, cache, grouping, modelOf, settled, models: settledModels };
 }
 
 /**
@@ -243,12 +353,12 @@ function cachedModelAnalysis(
   reports: Map<number, MatrixReport>,
   settings: AnalysisSettings,
   cache: AnalysisCache | undefined,
-): ModelReport {
+): { report: ModelReport; outcome: ModelOutcome | null } {
   const state = reports.get(model.state);
   // A state matrix a pass has not reached yet has no analysis: its model is analysed (to
   // nothing) but not remembered, or the empty outcome would stand in for the real one later.
   const notYet = state?.skipped.some((s) => s.startsWith(BUDGET_SKIP)) ?? false;
-  if (!cache || !state || notYet) return analyseModel(file, model, reports, settings);
+  if (!cache || !state || notYet) return { report: analyseModel(file, model, reports, settings), outcome: null };
   const names = MODEL_ROLES.map((r) => (model[r] === null || model[r] === undefined ? '-' : file.matrices[model[r] as number].name ?? '?'));
   let modelSettings = modelSettingsKeys.get(settings);
   if (modelSettings === undefined) {
@@ -283,7 +393,7 @@ function cachedModelAnalysis(
     target.findings.push({ ...finding, span: { start: lit.span.start + start, end: lit.span.start + end } });
   }
   // Indices can move when matrices are added above; the cached report carries the current ones.
-  return { ...outcome.report, state: model.state, input: model.input, output: model.output, feedthrough: model.feedthrough };
+  return { report: { ...outcome.report, state: model.state, input: model.input, output: model.output, feedthrough: model.feedthrough }, outcome };
 }
 
 function entryValues(lit: MatrixLiteral): (EntryValue | null)[][] {

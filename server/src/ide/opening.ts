@@ -51,12 +51,10 @@ export function openingCut(text: string, target = OPENING_PREFIX_CHARS, minChars
  * saying that the rest follows. `lines` counts the prefix's lines for that message.
  */
 export function openingDiagnostics(prefix: DocumentReport, prefixText: string, documentLines: number): PlainDiagnostic[] {
-  const matrices = prefix.matrices;
-  const last = matrices[matrices.length - 1];
-  const settledEnd = last ? last.statementSpan.start : 0;
-  const kept = diagnosticsOf(prefix).filter((d) => d.matrixIndex !== null && d.span.end <= settledEnd && !d.message.startsWith('Not analysed:'));
+  const settled = settledEnd(prefix);
+  const kept = diagnosticsOf(prefix).filter((d) => d.matrixIndex !== null && d.span.end <= settled && !d.message.startsWith('Not analysed:'));
   let lines = 1;
-  for (let i = 0; i < settledEnd; i++) if (prefixText.charCodeAt(i) === 10) lines++;
+  for (let i = 0; i < settled; i++) if (prefixText.charCodeAt(i) === 10) lines++;
   kept.unshift({
     span: { start: 0, end: 0 },
     severity: 'information',
@@ -67,3 +65,24 @@ export function openingDiagnostics(prefix: DocumentReport, prefixText: string, d
   });
   return kept;
 }
+
+/** Where the findings of an opening report are settled: the start of its last matrix (which the cut may have truncated). */
+export function settledEnd(prefix: DocumentReport): number {
+  const last = prefix.matrices[prefix.matrices.length - 1];
+  return last ? last.statementSpan.start : 0;
+}
+
+/** How far the reading of a large document has got, as the server reports it. */
+export interface ReadingProgress {
+  phase: 'parsing' | 'reading' | 'done';
+  fraction: number;
+}
+
+/** What a hover says below the lines the opening pass covered, while the file is still being read. */
+export function readingHoverMarkdown(progress: ReadingProgress, documentLines: number): string {
+  const what = progress.phase === 'parsing' ? 'parsing' : 'reading its statements';
+  return `**eigenlens** is still reading this file (${documentLines.toLocaleString('en-US')} lines; ${what}, ${Math.round(progress.fraction * 100)} %). Hover again in a moment.`;
+}
+
+/** Appended to a hover answered from the opening pass: the matrix's own analysis is final, its model findings may not be. */
+export const READING_HOVER_NOTE = '\n\n---\n*eigenlens is still reading the rest of this file: findings that involve matrices further down follow.*';

@@ -29,7 +29,7 @@ import {
   type CancellationToken,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
-import { AnalysisCache, analyzeDocument, initAnalysis } from '../analysis/analyze';
+import { abandonExtractions, AnalysisCache, analyzeDocument, extractSlice, initAnalysis, needsSlicedExtraction } from '../analysis/analyze';
 import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
@@ -62,7 +62,7 @@ import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
 import { reportMarkdown } from '../ide/report';
 import { IdleCollector } from './idleCollect';
-import { OPENING_MIN_CHARS, openingCut, openingDiagnostics } from '../ide/opening';
+import { OPENING_MIN_CHARS, openingCut, openingDiagnostics, READING_HOVER_NOTE, readingHoverMarkdown, settledEnd, type ReadingProgress } from '../ide/opening';
 import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
 
 /** Diagnostics wait this long after the last keystroke (common practice for linters: 100–300 ms). */
@@ -70,6 +70,14 @@ export const DIAGNOSTIC_DEBOUNCE_MS = 150;
 
 /** Analysis time per diagnostics pass; a larger document is finished by further passes. */
 export const DIAGNOSTIC_SLICE_MS = 250;
+
+/**
+ * Continuation passes over a large document (OPENING_MIN_CHARS and up) are shorter, so that a
+ * request arriving during one waits little; they publish at most every CONTINUATION_PUBLISH_MS
+ * (converting and sending thousands of diagnostics each pass would cost more than the pass).
+ */
+export const CONTINUATION_SLICE_MS = 80;
+export const CONTINUATION_PUBLISH_MS = 1000;
 
 const TRACE = process.env.EIGENLENS_TRACE === '1';
 
@@ -82,6 +90,12 @@ export const REQUEST_SLICE_MS = 120;
 
 /** Analysis time of the opening pass over a large document's first lines (see ide/opening.ts). */
 export const OPENING_SLICE_MS = 60;
+
+/**
+ * Parsing and reading time per slice when a large document is read for the first time
+ * (syntax/extract.ts `extractSlice`); requests are answered between slices.
+ */
+export const READ_SLICE_MS = 40;
 
 const LANGUAGE_IDS: Record<string, SourceLanguage> = {
   python: 'python',
@@ -112,10 +126,28 @@ interface CachedReport {
   report: DocumentReport;
 }
 
+/** The opening pass's report of a large document (ide/opening.ts), used while the whole is still being read. */
+interface OpeningReport extends CachedReport {
+  prefix: string;
+  /** Findings of matrices starting before this offset are settled. */
+  settledEnd: number;
+}
+
+/** A report for a request; `readingUpTo` is set while the document is still being read: the report covers only what lies before it. */
+interface ReportAnswer {
+  report: DocumentReport;
+  settings: IdeSettings;
+  readingUpTo?: number;
+  reading?: ReadingProgress;
+}
+
 export function startServer(connection: Connection = createConnection(ProposedFeatures.all)): void {
   const documents = new TextDocuments(TextDocument);
   const matrixCache = new AnalysisCache();
   const reports = new Map<string, CachedReport>();
+  const openings = new Map<string, OpeningReport>();
+  /** How far the first reading of each large document has got. */
+  const readingProgress = new Map<string, ReadingProgress>();
   const settingsCache = new Map<string, Promise<IdeSettings>>();
   const timers = new Map<string, NodeJS.Timeout>();
   const idle = new IdleCollector();
@@ -176,14 +208,19 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     doc: TextDocument,
     token: CancellationToken | undefined,
     pass: 'slice' | 'interactive' | 'command',
-    opts: { deferChecks?: boolean; focus?: number } = {},
-  ): Promise<{ report: DocumentReport; settings: IdeSettings } | null> {
+    opts: { deferChecks?: boolean; focus?: number; continuation?: boolean } = {},
+  ): Promise<ReportAnswer | null> {
     await ready;
     const language = languageOf(doc);
     if (!language) return null;
     const settings = await settingsFor(doc.uri);
     const current = documents.get(doc.uri);
     if (!current || current.version !== doc.version || token?.isCancellationRequested) return null;
+    // A large document not yet read whole: requests answer from its opening pass, commands wait for the reading.
+    if (mustRead(doc, language, settings)) {
+      if (pass === 'interactive') return openingAnswer(doc, language, settings, opts.focus);
+      if (!(await readAll(doc, language, settings, token))) return null;
+    }
     const cached = reports.get(doc.uri);
     if (cached && cached.version === doc.version && cached.settings === settings) {
       const r = cached.report;
@@ -192,17 +229,61 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     }
     // An interactive request over an unfinished report only needs its focus: the passes finish the rest.
     const unfinishedHere = cached !== undefined && cached.version === doc.version && cached.settings === settings;
-    const budget = pass === 'slice' ? DIAGNOSTIC_SLICE_MS : pass === 'interactive' ? (unfinishedHere ? 0 : REQUEST_SLICE_MS) : Number.POSITIVE_INFINITY;
+    const sliceMs = opts.continuation && doc.getText().length >= OPENING_MIN_CHARS ? CONTINUATION_SLICE_MS : DIAGNOSTIC_SLICE_MS;
+    const budget = pass === 'slice' ? sliceMs : pass === 'interactive' ? (unfinishedHere ? 0 : REQUEST_SLICE_MS) : Number.POSITIVE_INFINITY;
     const analysis = { ...settings.analysis, timeBudgetMs: Math.min(settings.analysis.timeBudgetMs, budget) };
     const report = analyzeDocument(doc.getText(), language, analysis, {
       cache: matrixCache,
       isCancelled: () => token?.isCancellationRequested === true,
       deferChecks: opts.deferChecks,
       focus: opts.focus,
+      // Passes over the same version take over what earlier ones settled.
+      previous: cached && cached.version === doc.version ? cached.report : undefined,
     });
     if (token?.isCancellationRequested) return null;
     reports.set(doc.uri, { version: doc.version, settings, report });
     return { report, settings };
+  }
+
+  /** Reading the document would be a full parse of a large text, which is done in slices (see READ_SLICE_MS). */
+  function mustRead(doc: TextDocument, language: SourceLanguage, settings: IdeSettings): boolean {
+    const text = doc.getText();
+    return text.length <= settings.analysis.maxFileChars && needsSlicedExtraction(text, language, { stateMatrixNames: settings.analysis.stateMatrixNames });
+  }
+
+  /** One slice of reading the document; true when it is read (or needs no slices). */
+  function readSlice(doc: TextDocument, language: SourceLanguage, settings: IdeSettings): boolean {
+    const text = doc.getText();
+    if (text.length > settings.analysis.maxFileChars) return true;
+    const progress = extractSlice(text, language, { stateMatrixNames: settings.analysis.stateMatrixNames }, READ_SLICE_MS, doc.uri);
+    readingProgress.set(doc.uri, progress);
+    return progress.done;
+  }
+
+  /** Reads the document in slices, letting other work run between them; false when it changed or the request was cancelled. */
+  async function readAll(doc: TextDocument, language: SourceLanguage, settings: IdeSettings, token?: CancellationToken): Promise<boolean> {
+    for (;;) {
+      const latest = documents.get(doc.uri);
+      if (!latest || latest.version !== doc.version || token?.isCancellationRequested) return false;
+      if (readSlice(doc, language, settings)) return true;
+      await new Promise<void>((resolve) => setImmediate(resolve));
+    }
+  }
+
+  /**
+   * The answer for a request while the document is being read: the opening report, with the
+   * matrix at `focus` analysed if it lies in the settled part; an empty report before any.
+   */
+  function openingAnswer(doc: TextDocument, language: SourceLanguage, settings: IdeSettings, focus: number | undefined): ReportAnswer {
+    const reading = readingProgress.get(doc.uri) ?? { phase: 'parsing', fraction: 0 };
+    const o = openings.get(doc.uri);
+    if (!o || o.version !== doc.version || o.settings !== settings) {
+      return { report: { language, matrices: [], models: [], findings: [] }, settings, readingUpTo: 0, reading };
+    }
+    if (focus !== undefined && focus < o.settledEnd && !coversFocus(o.report, focus)) {
+      o.report = analyzeDocument(o.prefix, language, { ...settings.analysis, timeBudgetMs: 0 }, { cache: matrixCache, focus });
+    }
+    return { report: o.report, settings, readingUpTo: o.settledEnd, reading };
   }
 
   /**
@@ -228,6 +309,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   const continuing = new Set<string>();
   /** Documents whose last published pass was incomplete. */
   const unfinished = new Set<string>();
+  /** When diagnostics were last sent for each document. */
+  const lastPublished = new Map<string, number>();
   /** EIGENLENS_TRACE: when each document last changed. */
   const changedAt = new Map<string, number>();
 
@@ -251,6 +334,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const prefix = text.slice(0, cut);
     const budget = Math.min(settings.analysis.timeBudgetMs, OPENING_SLICE_MS);
     const report = analyzeDocument(prefix, language, { ...settings.analysis, timeBudgetMs: budget }, { cache: matrixCache });
+    openings.set(doc.uri, { version: doc.version, settings, report, prefix, settledEnd: settledEnd(report) });
     const T2 = performance.now();
     const diagnostics = openingDiagnostics(report, prefix, doc.lineCount).map((d) => toDiagnostic(doc, d));
     await connection.sendDiagnostics({ uri: doc.uri, version: doc.version, diagnostics });
@@ -273,13 +357,38 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     // edited matrix to the next pass, so that its verdict goes out first; continuation passes
     // do everything. (Small documents check at once: nothing to gain, and a check finding
     // would flicker off and on while its matrix is edited.)
+    // A large document read for the first time: a slice of parsing and reading, then the next pass.
+    const language = languageOf(doc);
+    if (language) {
+      await ready;
+      const settings = await settingsFor(uri);
+      const latest = documents.get(uri);
+      if (!latest || latest.version !== doc.version) return;
+      const R0 = performance.now();
+      if (!readSlice(doc, language, settings)) {
+        unfinished.add(uri);
+        const p = readingProgress.get(uri);
+        if (TRACE) process.stderr.write(`read ${uri} v${doc.version}: ${(performance.now() - R0).toFixed(1)} ms, ${p?.phase} ${Math.round((p?.fraction ?? 0) * 100)} %\n`);
+        scheduleDiagnostics(uri, 0);
+        return;
+      }
+    }
     const continuation = continuing.delete(uri);
     const T0 = performance.now();
-    const result = await reportFor(doc, undefined, 'slice', { deferChecks: !continuation && doc.getText().length >= OPENING_MIN_CHARS });
+    const large = doc.getText().length >= OPENING_MIN_CHARS;
+    const result = await reportFor(doc, undefined, 'slice', { deferChecks: !continuation && large, continuation });
     const T1 = performance.now();
     const latest = documents.get(uri);
     // A newer version arrived while we waited: its own debounce will publish.
     if (!result || !latest || latest.version !== doc.version) return;
+    // An unfinished continuation of a large document publishes only now and then (see CONTINUATION_PUBLISH_MS).
+    if (continuation && large && result.report.incomplete && performance.now() - (lastPublished.get(uri) ?? 0) < CONTINUATION_PUBLISH_MS) {
+      continuing.add(uri);
+      unfinished.add(uri);
+      scheduleDiagnostics(uri, 0);
+      return;
+    }
+    lastPublished.set(uri, performance.now());
     const diagnostics: Diagnostic[] = diagnosticsOf(result.report).map((d) => toDiagnostic(doc, d));
     const T2 = performance.now();
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
@@ -340,6 +449,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('configuration', undefined, (change) => {
       settingsCache.clear();
       reports.clear();
+      openings.clear();
       const pushed = (change.settings as Record<string, unknown> | null | undefined)?.[SETTINGS_SECTION];
       pushedSettings = pushed !== undefined ? settingsFromUser(pushed) : DEFAULT_IDE_SETTINGS;
       for (const doc of documents.all()) scheduleDiagnostics(doc.uri, 0);
@@ -365,6 +475,10 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       if (timer) clearTimeout(timer);
       timers.delete(e.document.uri);
       reports.delete(e.document.uri);
+      openings.delete(e.document.uri);
+      readingProgress.delete(e.document.uri);
+      lastPublished.delete(e.document.uri);
+      abandonExtractions(e.document.uri);
       justOpened.delete(e.document.uri);
       opened.delete(e.document.uri);
       continuing.delete(e.document.uri);
@@ -379,9 +493,14 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     guarded('hover', null, async (params, token) => {
       const doc = documents.get(params.textDocument.uri);
       if (!doc) return null;
-      const result = await reportFor(doc, token, 'interactive', { focus: doc.offsetAt(params.position) });
+      const offset = doc.offsetAt(params.position);
+      const result = await reportFor(doc, token, 'interactive', { focus: offset });
       if (!result) return null;
-      const hover = hoverAt(result.report, doc.getText(), doc.offsetAt(params.position), result.settings.analysis);
+      if (result.readingUpTo !== undefined && offset >= result.readingUpTo) {
+        return { contents: { kind: 'markdown', value: readingHoverMarkdown(result.reading ?? { phase: 'parsing', fraction: 0 }, doc.lineCount) } };
+      }
+      const hover = hoverAt(result.report, doc.getText(), offset, result.settings.analysis);
+      if (hover && result.readingUpTo !== undefined) hover.markdown += READING_HOVER_NOTE;
       return hover ? toHover(doc, hover) : null;
     }),
   );
@@ -392,7 +511,10 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       if (!doc) return [];
       const result = await reportFor(doc, token, 'interactive');
       if (!result || !result.settings.codeLensEnabled) return [];
-      return lensesOf(result.report, result.settings.analysis.precision).map((lens) => toLens(doc, lens));
+      const upTo = result.readingUpTo;
+      return lensesOf(result.report, result.settings.analysis.precision)
+        .filter((lens) => upTo === undefined || lens.span.end <= upTo)
+        .map((lens) => toLens(doc, lens));
     }),
   );
 
@@ -403,7 +525,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       if (!doc || typeof data?.matrixIndex !== 'number') return lens;
       const result = await reportFor(doc, undefined, 'interactive', { focus: doc.offsetAt(lens.range.start) });
       const plain = result ? verdictLens(result.report, data.matrixIndex, result.settings.analysis.precision) : null;
-      return plain ? { ...toLens(doc, plain), range: lens.range } : { ...lens, command: { title: 'eigenlens: the document changed', command: '' } };
+      if (plain) return { ...toLens(doc, plain), range: lens.range };
+      return { ...lens, command: { title: result?.readingUpTo !== undefined ? 'eigenlens: reading…' : 'eigenlens: the document changed', command: '' } };
     }),
   );
 
@@ -421,6 +544,12 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const result = await reportFor(doc, token, 'interactive', { focus: doc.offsetAt(range.start) });
     const language = languageOf(doc);
     if (!result || !language) return null;
+    // While the document is being read: actions on the settled part only, and none over the whole file.
+    if (result.readingUpTo !== undefined) {
+      if (doc.offsetAt(range.start) >= result.readingUpTo) return [];
+      only = only.length > 0 ? only : ['quickfix', 'refactor'];
+      if (only.some((o) => o === 'source' || o.startsWith('source.'))) return [];
+    }
     const actions = codeActionsAt(result.report, doc.getText(), language, {
       span: toSpan(doc, range),
       diagnosticCodes,

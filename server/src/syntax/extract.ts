@@ -2,14 +2,15 @@
  * Entry point of the syntax layer: `initParsers` once, then `extract` per document.
  * `extract` is synchronous and never throws: any internal failure becomes a Problem.
  */
+import type { Parser, Tree } from 'web-tree-sitter';
 import { extractByEntryEdit } from './entryEdit';
 import { ParseCache } from './incrementalParse';
 import { LiteralMemo } from './literalMemo';
 import { extractLti } from './lti';
-import { extractPython } from './python';
+import { extractPython, pythonSteps } from './python';
 import { compileNamePatterns } from './roles';
-import { loadedParsers, loadParsers } from './treeSitter';
-import { extractTypeScript } from './typescript';
+import { loadedParsers, loadParsers, newParserFor } from './treeSitter';
+import { extractTypeScript, typeScriptSteps } from './typescript';
 import type { ExtractedFile, SourceLanguage } from './types';
 
 export interface ExtractOptions {
@@ -40,11 +41,12 @@ const extracted: { key: string; text: string; file: ExtractedFile }[] = [];
 let extractedHits = 0;
 let entryEdits = 0;
 
-/** Drops every cached tree, extraction and memoised literal (frees their memory; results do not change). */
+/** Drops every cached tree, extraction, memoised literal and unfinished sliced extraction (frees their memory; results do not change). */
 export function clearExtractCaches(): void {
   parseCache.clear();
   literalMemo.clear();
   extracted.length = 0;
+  for (const job of jobs.splice(0)) endJob(job);
 }
 
 /** How many parses were served unchanged, incrementally or from scratch since start. */
@@ -64,9 +66,10 @@ function emptyFile(language: SourceLanguage): ExtractedFile {
   return { language, matrices: [], constants: [], filePragma: null, problems: [], systems: [] };
 }
 
-export function extract(text: string, language: SourceLanguage, opts?: ExtractOptions): ExtractedFile {
-  if (opts?.reuse === false) return extractFresh(text, language, opts);
-  const key = `${language}\u0000${(opts?.stateMatrixNames ?? []).join('\u0000')}`;
+const keyOf = (language: SourceLanguage, opts?: ExtractOptions) => `${language}\u0000${(opts?.stateMatrixNames ?? []).join('\u0000')}`;
+
+/** The remembered extraction of this text, or one made without the parser from a recent text (entryEdit.ts); null otherwise. */
+function quickExtract(key: string, text: string, language: SourceLanguage): ExtractedFile | null {
   const i = extracted.findIndex((e) => e.key === key && e.text === text);
   if (i >= 0) {
     const hit = extracted[i];
@@ -76,19 +79,198 @@ export function extract(text: string, language: SourceLanguage, opts?: ExtractOp
     return hit.file;
   }
   // A number typed inside one entry of a recent text: re-read that entry only (entryEdit.ts).
-  let file: ExtractedFile | null = null;
-  for (let k = extracted.length - 1; k >= Math.max(0, extracted.length - 4) && file === null; k--) {
+  for (let k = extracted.length - 1; k >= Math.max(0, extracted.length - 4); k--) {
     const recent = extracted[k];
     if (recent.key !== key) continue;
-    file = extractByEntryEdit(recent.file, recent.text, text, language);
-    if (file) entryEdits++;
+    const file = extractByEntryEdit(recent.file, recent.text, text, language);
+    if (file) {
+      entryEdits++;
+      remember(key, text, file);
+      return file;
+    }
   }
-  file ??= extractFresh(text, language, opts);
+  return null;
+}
+
+function remember(key: string, text: string, file: ExtractedFile): void {
   extracted.push({ key, text, file });
   let chars = 0;
   for (const e of extracted) chars += e.text.length;
   while (extracted.length > 1 && (extracted.length > EXTRACTED_KEEP || chars > EXTRACTED_KEEP_CHARS)) chars -= extracted.shift()!.text.length;
+}
+
+export function extract(text: string, language: SourceLanguage, opts?: ExtractOptions): ExtractedFile {
+  if (opts?.reuse === false) return extractFresh(text, language, opts);
+  const key = keyOf(language, opts);
+  const quick = quickExtract(key, text, language);
+  if (quick) return quick;
+  const file = extractFresh(text, language, opts);
+  remember(key, text, file);
   return file;
+}
+
+/** The extraction of this text is remembered: `extract` answers it at once. */
+export function extractionReady(text: string, language: SourceLanguage, opts?: ExtractOptions): boolean {
+  const key = keyOf(language, opts);
+  return extracted.some((e) => e.key === key && e.text === text);
+}
+
+/*
+ * Extraction in slices. A full parse and walk of a large file (about a second for 2 MB) would
+ * hold the server's only thread, and with it every request. `extractSlice` does at most about
+ * `sliceMs` of that work and returns; called again with the same text it goes on where it
+ * stopped: tree-sitter's parser resumes a parse halted by its progress callback (tree-sitter
+ * documentation, `Parser.parse` and `Parser.reset`), and the walk is a generator over top-level
+ * statements (python.ts, typescript.ts). Each job has a parser and a tree of its own, so other
+ * documents' parses in between cannot disturb it; the finished tree goes to the parse cache and
+ * the extraction to the memo above, exactly as `extract` would have left them.
+ */
+
+/** A full parse of at least this many characters is done in slices (about 25 ms of parsing). */
+export const SLICED_EXTRACTION_CHARS = 100_000;
+/**
+ * Unfinished jobs at once (each holds a partial tree). A job is never dropped to make room for
+ * another — round-robin slices over more documents than jobs would then restart every parse
+ * and none would finish — so past this many, a large text is extracted at once instead.
+ * A job not stepped for STALE_JOB_MS (its document went away unnoticed) is dropped.
+ */
+const MAX_JOBS = 4;
+const STALE_JOB_MS = 30_000;
+/** Every slice makes at least this much progress, however late it is called. */
+const MIN_SLICE_MS = 5;
+
+interface ExtractionJob {
+  key: string;
+  text: string;
+  language: SourceLanguage;
+  owner: string | null;
+  parser: Parser | null;
+  tree: Tree | null;
+  steps: Generator<number, ExtractedFile, void> | null;
+  /** Characters read by the walk so far. */
+  readTo: number;
+  /** Slices stepped (for measurements). */
+  slices: number;
+  /** When it was last stepped (performance.now()). */
+  steppedAt: number;
+}
+
+const jobs: ExtractionJob[] = [];
+
+export interface ExtractionProgress {
+  /** The extraction is remembered: `extract` (and so analyzeDocument) answers at once. */
+  done: boolean;
+  /** 'parsing' or 'reading' while not done. */
+  phase: 'parsing' | 'reading' | 'done';
+  /** Share of the text the current phase has covered, 0–1. */
+  fraction: number;
+}
+
+function endJob(job: ExtractionJob): void {
+  job.steps = null;
+  job.tree?.delete();
+  job.tree = null;
+  job.parser?.delete();
+  job.parser = null;
+}
+
+/**
+ * `extract` of this text would parse it in full at a size `extractSlice` does in slices (no
+ * remembered extraction, no reusable tree): a caller that must answer quickly should not call it.
+ */
+export function needsSlicedExtraction(text: string, language: SourceLanguage, opts?: ExtractOptions): boolean {
+  if (language === 'lti' || text.length < SLICED_EXTRACTION_CHARS || !loadedParsers()) return false;
+  return !extractionReady(text, language, opts) && !parseCache.canReuse(language, text);
+}
+
+/** Drops unfinished sliced extractions started for `owner` (a document that changed or closed). */
+export function abandonExtractions(owner: string): void {
+  for (let i = jobs.length - 1; i >= 0; i--) {
+    if (jobs[i].owner === owner) endJob(jobs.splice(i, 1)[0]);
+  }
+}
+
+/** Unfinished sliced extractions (for tests and measurements). */
+export function pendingExtractions(): number {
+  return jobs.length;
+}
+
+/**
+ * Up to about `sliceMs` of work towards the extraction of `text`, then returns how far it got.
+ * Small texts, texts with a reusable tree and LTI files are extracted at once. `owner` (a
+ * document URI) lets a newer text of the same document replace an unfinished job of an older one.
+ */
+export function extractSlice(text: string, language: SourceLanguage, opts: ExtractOptions | undefined, sliceMs: number, owner?: string): ExtractionProgress {
+  const key = keyOf(language, opts);
+  const index = jobs.findIndex((j) => j.key === key && j.text === text);
+  if (index < 0) {
+    if (extractionReady(text, language, opts)) return { done: true, phase: 'done', fraction: 1 };
+    const parsers = loadedParsers();
+    if (owner !== undefined) abandonExtractions(owner);
+    const now = performance.now();
+    for (let i = jobs.length - 1; i >= 0; i--) if (now - jobs[i].steppedAt > STALE_JOB_MS) endJob(jobs.splice(i, 1)[0]);
+    if (
+      opts?.reuse === false || language === 'lti' || !parsers || text.length < SLICED_EXTRACTION_CHARS || jobs.length >= MAX_JOBS ||
+      parseCache.canReuse(language, text) || quickExtract(key, text, language)
+    ) {
+      extract(text, language, opts);
+      return { done: true, phase: 'done', fraction: 1 };
+    }
+    const parser = newParserFor(language === 'python' ? parsers.python : parsers.typescript);
+    jobs.push({ key, text, language, owner: owner ?? null, parser, tree: null, steps: null, readTo: 0, slices: 0, steppedAt: now });
+  } else {
+    jobs.push(jobs.splice(index, 1)[0]);
+  }
+  const job = jobs[jobs.length - 1];
+  job.steppedAt = performance.now();
+  const deadline = job.steppedAt + Math.max(sliceMs, MIN_SLICE_MS);
+  job.slices++;
+  let file: ExtractedFile | null = null;
+  try {
+    if (!job.tree) {
+      let at = 0;
+      job.tree = job.parser!.parse(text, null, {
+        progressCallback: (state) => {
+          at = state.currentOffset;
+          return performance.now() > deadline;
+        },
+      });
+      // currentOffset counts bytes of the UTF-16 text tree-sitter reads (two per character).
+      if (!job.tree) return { done: false, phase: 'parsing', fraction: Math.min(1, at / (2 * text.length)) };
+      job.parser!.delete();
+      job.parser = null;
+    }
+    if (!job.steps) {
+      const patterns = compileNamePatterns(opts?.stateMatrixNames);
+      job.steps = job.language === 'python' ? pythonSteps(text, job.tree, patterns, literalMemo) : typeScriptSteps(text, job.tree, patterns, literalMemo);
+    }
+    for (;;) {
+      const r = job.steps.next();
+      if (r.done) {
+        file = r.value;
+        if (job.language !== 'python') file.language = job.language;
+        break;
+      }
+      job.readTo = r.value;
+      if (performance.now() > deadline) return { done: false, phase: 'reading', fraction: Math.min(1, job.readTo / Math.max(1, text.length)) };
+    }
+  } catch (err) {
+    file = emptyFile(language);
+    file.problems.push({
+      span: { start: 0, end: 0 },
+      severity: 'error',
+      code: 'internal-error',
+      message: `eigenlens could not read this file: ${String((err as Error)?.message ?? err)}`,
+    });
+  }
+  jobs.splice(jobs.indexOf(job), 1);
+  if (job.tree && file.problems.every((p) => p.code !== 'internal-error')) {
+    parseCache.adopt(language, text, job.tree);
+    job.tree = null;
+  }
+  endJob(job);
+  remember(key, text, file);
+  return { done: true, phase: 'done', fraction: 1 };
 }
 
 function extractFresh(text: string, language: SourceLanguage, opts?: ExtractOptions): ExtractedFile {

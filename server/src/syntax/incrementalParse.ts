@@ -146,6 +146,26 @@ export class ParseCache {
     return tree;
   }
 
+  /** A parse of `text` would reuse a cached tree (the same text, or one sharing enough of it). */
+  canReuse(language: string, text: string): boolean {
+    return this.bestMatch(language, text) !== null;
+  }
+
+  /**
+   * Takes ownership of a tree parsed elsewhere (a parse done in slices, see extract.ts), as if
+   * `parse` had made it: the caller must no longer delete it.
+   */
+  adopt(language: string, text: string, tree: Tree): void {
+    const same = this.entries.findIndex((e) => e.language === language && e.text === text);
+    if (same >= 0) {
+      this.touch(this.entries[same]);
+      tree.delete();
+      return;
+    }
+    this.stats.full++;
+    this.insert({ language, text, tree });
+  }
+
   /** Deletes every cached tree. */
   clear(): void {
     for (const e of this.entries) e.tree.delete();

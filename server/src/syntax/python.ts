@@ -14,6 +14,7 @@ import type { Node, Tree } from 'web-tree-sitter';
 import { buildMatrix, PragmaAttacher, type LiteralNode } from './literal';
 import { evaluateEntry } from './evaluate';
 import type { LiteralMemo } from './literalMemo';
+import { runToEnd } from './steps';
 import { roleFromName } from './roles';
 import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
 
@@ -67,6 +68,15 @@ function literalOf(right: Node): { top: Node; arrayCall: boolean } | null {
 
 /** `memo`, when given, reuses matrices built by earlier extractions (see literalMemo.ts); the result is the same. */
 export function extractPython(text: string, tree: Tree, extraStatePatterns: RegExp[], memo?: LiteralMemo | null): ExtractedFile {
+  return runToEnd(pythonSteps(text, tree, extraStatePatterns, memo));
+}
+
+/**
+ * The same extraction one top-level statement at a time: each step yields the offset where
+ * the statement just read ends, and the generator returns the extraction. The tree must stay
+ * alive (not deleted) until the generator has finished.
+ */
+export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegExp[], memo?: LiteralMemo | null): Generator<number, ExtractedFile, void> {
   const problems: Problem[] = [];
   const matrices: MatrixLiteral[] = [];
   const constants: Constant[] = [];
@@ -199,11 +209,13 @@ export function extractPython(text: string, tree: Tree, extraStatePatterns: RegE
         : null;
     if (key !== null && inert!.has(key)) {
       memo!.stats.skippedStatements++;
+      yield statement.endIndex;
       continue;
     }
     const before = effects;
     walkFrom(statement);
     if (key !== null && effects === before) inert!.add(key);
+    yield statement.endIndex;
   }
 
   const filePragma = attacher.finish();

@@ -90,3 +90,10 @@ export function loadParsers(wasmDir?: string): Promise<LoadedParsers> {
 export function loadedParsers(): LoadedParsers | null {
   return loaded;
 }
+
+/** A new parser for the language of `like` (for a parse that must not share another's state; delete it after use). */
+export function newParserFor(like: Parser): Parser {
+  const parser = new Parser();
+  parser.setLanguage(like.language);
+  return parser;
+}

@@ -13,6 +13,7 @@ import type { Node, Tree } from 'web-tree-sitter';
 import { evaluateEntry } from './evaluate';
 import { buildMatrix, PragmaAttacher, type LiteralInput, type LiteralNode } from './literal';
 import type { LiteralMemo } from './literalMemo';
+import { runToEnd } from './steps';
 import { roleFromName } from './roles';
 import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
 
@@ -90,6 +91,15 @@ function propertyName(key: Node): { name: string; span: Span } | null {
 
 /** `memo`, when given, reuses matrices built by earlier extractions (see literalMemo.ts); the result is the same. */
 export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: RegExp[], memo?: LiteralMemo | null): ExtractedFile {
+  return runToEnd(typeScriptSteps(text, tree, extraStatePatterns, memo));
+}
+
+/**
+ * The same extraction one top-level statement at a time: each step yields the offset where
+ * the statement just read ends, and the generator returns the extraction. The tree must stay
+ * alive (not deleted) until the generator has finished.
+ */
+export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: RegExp[], memo?: LiteralMemo | null): Generator<number, ExtractedFile, void> {
   const problems: Problem[] = [];
   const matrices: MatrixLiteral[] = [];
   const constants: Constant[] = [];
@@ -249,11 +259,13 @@ export function extractTypeScript(text: string, tree: Tree, extraStatePatterns: 
       inert && CONTAINERS.has(statement.type) && !statement.hasError ? `ts\u0000${text.slice(statement.startIndex, statement.endIndex)}` : null;
     if (key !== null && inert!.has(key)) {
       memo!.stats.skippedStatements++;
+      yield statement.endIndex;
       continue;
     }
     const before = effects;
     walkFrom(statement);
     if (key !== null && effects === before) inert!.add(key);
+    yield statement.endIndex;
   }
 
   const filePragma = attacher.finish();

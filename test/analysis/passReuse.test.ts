@@ -1,0 +1,75 @@
+// Passes over the same text that take over what earlier passes settled (AnalyzeOptions.previous)
+// must give exactly the report of one unhurried pass. Reference: the single pass with no time
+// budget (its own correctness is what the engine and analysis tests check); the files are
+// generated invented ones (test/bench/generate.mjs) with models (A with B, C, D) and with
+// uncontrollable pairs (Kalman rank test, CHECKS check 20) in the hand-written one below.
+import { beforeAll, describe, expect, it } from 'vitest';
+import { AnalysisCache, analyzeDocument, DEFAULT_SETTINGS, initAnalysis } from '../../server/src/analysis/analyze';
+import type { DocumentReport } from '../../server/src/analysis/report';
+import type { SourceLanguage } from '../../server/src/syntax/types';
+// @ts-expect-error plain JavaScript module without type declarations
+import { generateSourceFile } from '../bench/generate.mjs';
+
+beforeAll(async () => {
+  await initAnalysis();
+});
+
+/** The report as data (closed forms read through the getter, bigints as strings). */
+const json = (r: DocumentReport) =>
+  JSON.stringify({ ...r, incomplete: undefined, findings: r.findings.filter((f) => f.code !== 'analysis-limit'), matrices: r.matrices.map((m) => ({ ...m, transition: m.transition })) }, (_k, v: unknown) =>
+    typeof v === 'bigint' ? v.toString() : v,
+  );
+
+const unhurried = { ...DEFAULT_SETTINGS, timeBudgetMs: Number.POSITIVE_INFINITY };
+
+function inPasses(text: string, language: SourceLanguage, budgetMs: number, opts: { deferFirst?: boolean } = {}) {
+  const cache = new AnalysisCache();
+  let report: DocumentReport | undefined;
+  let passes = 0;
+  do {
+    report = analyzeDocument(text, language, { ...DEFAULT_SETTINGS, timeBudgetMs: budgetMs }, { cache, previous: report, deferChecks: opts.deferFirst === true && passes === 0 });
+    passes++;
+  } while (report.incomplete && passes < 10_000);
+  return { report, passes };
+}
+
+const handWritten = [
+  '# invented: two models, the first neither controllable nor observable',
+  'A = [[0, 1], [0, 0]]', 'B = [[1], [0]]', 'C = [[0, 1]]',
+  '# eigenlens: period=0.5', 'A2 = [[0, 1], [-100, -1]]', 'B2 = [[0], [1]]', 'C2 = [[1, 0]]', 'D2 = [[0]]',
+  'A3 = [[-1, 1, 0], [0, -1, 1], [0, 0, -1]]',
+].join('\n') + '\n';
+
+describe('passes that reuse what earlier passes settled', () => {
+  it('a hand-written file analysed one matrix per pass equals one pass', () => {
+    const { report, passes } = inPasses(handWritten, 'python', 0, { deferFirst: true });
+    expect(passes).toBeGreaterThan(1);
+    const whole = analyzeDocument(handWritten, 'python', unhurried, { cache: new AnalysisCache() });
+    expect(json(report)).toBe(json(whole));
+    // The model findings are on B and C once each, not once per pass.
+    const codes = report.matrices.flatMap((m) => m.findings.map((f) => `${m.name}:${f.code}`));
+    expect(codes.filter((c) => c === 'B:uncontrollable-mode')).toHaveLength(1);
+    expect(codes.filter((c) => c === 'C:unobservable-mode')).toHaveLength(1);
+  });
+
+  for (const language of ['python', 'typescript'] as SourceLanguage[]) {
+    it(`${language}: a generated 120-matrix file analysed in 5 ms passes equals one pass`, () => {
+      const { text } = generateSourceFile(language === 'python' ? 61 : 62, language, { lines: 1500, count: 120 }) as { text: string };
+      const { report, passes } = inPasses(text, language, 5, { deferFirst: true });
+      expect(passes).toBeGreaterThan(2);
+      const whole = analyzeDocument(text, language, unhurried, { cache: new AnalysisCache() });
+      expect(json(report)).toBe(json(whole));
+    });
+  }
+
+  it('a previous report of another text or other settings is not used', () => {
+    const cache = new AnalysisCache();
+    const first = analyzeDocument(handWritten, 'python', unhurried, { cache });
+    const other = handWritten.replace('B = [[1], [0]]', 'B = [[0], [1]]');
+    const next = analyzeDocument(other, 'python', unhurried, { cache, previous: first });
+    expect(json(next)).toBe(json(analyzeDocument(other, 'python', unhurried, { cache: new AnalysisCache() })));
+    const discrete = { ...unhurried, defaultDomain: 'discrete' as const };
+    const again = analyzeDocument(handWritten, 'python', discrete, { cache, previous: first });
+    expect(json(again)).toBe(json(analyzeDocument(handWritten, 'python', discrete, { cache: new AnalysisCache() })));
+  });
+});
