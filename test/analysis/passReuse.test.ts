@@ -62,6 +62,34 @@ describe('passes that reuse what earlier passes settled', () => {
     });
   }
 
+  it('a pass that again runs out of budget takes over the reports it left for later, and their model findings are not added twice', () => {
+    const { text } = generateSourceFile(63, 'python', { lines: 1500, count: 120 }) as { text: string };
+    const cache = new AnalysisCache();
+    const hurried = { ...DEFAULT_SETTINGS, timeBudgetMs: 0 };
+    const waiting = (r: DocumentReport) => new Map(r.matrices.filter((m) => m.role === 'state' && m.spectrum === null && m.skipped.some((x) => x.startsWith('Not analysed'))).map((m) => [m.index, m]));
+    const codes = (r: DocumentReport, index: number) => r.matrices.filter((m) => m.index === index || m.modelId !== null && m.modelId === r.matrices.find((x) => x.index === index)?.modelId).map((m) => m.findings.map((f) => f.code).join(',')).join(';');
+    let previous = analyzeDocument(text, 'python', hurried, { cache });
+    let checked = 0;
+    for (let pass = 0; pass < 3; pass++) {
+      const before = waiting(previous);
+      // Read before the next pass, which takes these very objects over.
+      const codesBefore = new Map([...before.keys()].map((i) => [i, codes(previous, i)]));
+      const next = analyzeDocument(text, 'python', hurried, { cache, previous });
+      for (const [index, report] of waiting(next)) {
+        if (!before.has(index)) continue;
+        // The same object, not one built again, with the same findings on it and its model's matrices.
+        expect(report).toBe(before.get(index));
+        expect(codes(next, index)).toBe(codesBefore.get(index));
+        checked++;
+      }
+      previous = next;
+    }
+    expect(checked).toBeGreaterThan(0);
+    // A pass with time finishes them as one unhurried pass would.
+    const last = analyzeDocument(text, 'python', unhurried, { cache, previous });
+    expect(json(last)).toBe(json(analyzeDocument(text, 'python', unhurried, { cache: new AnalysisCache() })));
+  });
+
   it('a previous report of another text or other settings is not used', () => {
     const cache = new AnalysisCache();
     const first = analyzeDocument(handWritten, 'python', unhurried, { cache });

@@ -7,7 +7,7 @@
 // n ≤ 8; one-character edits inside integer matrices → diagnostics for that version. Then a
 // fresh server opens ten such files and its resident memory is read from /proc/<pid>/status.
 import { spawn } from 'node:child_process';
-import { readFileSync } from 'node:fs';
+import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import { pathToFileURL } from 'node:url';
@@ -296,6 +296,8 @@ export async function memoryRun(root, { log }) {
     await new Promise((r) => setTimeout(r, 3000));
     const mem = memoryOf(session.proc.pid);
     mem.serverCpuSeconds = cpuSecondsOf(session.proc.pid);
+    // EIGENLENS_BENCH_SMAPS=<file> keeps the server's /proc/<pid>/smaps for a look at where the resident memory is.
+    if (process.env.EIGENLENS_BENCH_SMAPS) writeFileSync(process.env.EIGENLENS_BENCH_SMAPS, readFileSync(`/proc/${session.proc.pid}/smaps`, 'utf8'));
     // The server's own split: JS heap, memory outside it (tree-sitter's WASM heap), caches.
     mem.serverStats = await session.conn.sendRequest('eigenlens/stats', { collectGarbage: true }).catch(() => null);
     if (mem.serverStats) log(`server memory split: ${JSON.stringify(mem.serverStats)}`);

@@ -31,6 +31,10 @@ export { abandonExtractions, extractSlice, needsSlicedExtraction, type Extractio
 
 /** Largest |entry| analysed: leaves about 150 decades of headroom for products and exponentials. */
 export const MAX_ENTRY_MAGNITUDE = 1e150;
+/** The share of a pass's time budget spent analysing matrices; the rest is for their findings, checks and models. */
+const LOOP_SHARE = 0.6;
+/** The share of the budget by which the closed-form checks stop. */
+const CHECK_SHARE = 0.85;
 
 const BUDGET_SKIP = NOT_YET_PREFIX;
 
@@ -92,6 +96,10 @@ export class AnalysisCache {
     closedFormTerms?: number,
   ) {
     this.closedForms = new ClosedFormStore(closedFormTerms);
+  }
+  /** The analysis under this key, if any, without counting a hit or refreshing it. */
+  peek(key: string): MatrixCore | undefined {
+    return this.map.get(key);
   }
   get(key: string): MatrixCore | undefined {
     const v = this.map.get(key);
@@ -157,6 +165,13 @@ interface PassMemo {
   settled: (MatrixReport | undefined)[];
   /** By state matrix index: the settled model's report and the findings it adds. */
   models: Map<number, { report: ModelReport; findings: ModelOutcome['findings'] }>;
+  /**
+   * By matrix index: the report of a state matrix the budget left for later, and how many of
+   * its findings are its own (the rest came from its model in that pass). A later pass that
+   * runs out of budget before it takes this report over instead of building it again, so a
+   * pass over a document with thousands of matrices still to do costs what it analyses.
+   */
+  pending: ({ report: MatrixReport; own: number } | undefined)[];
 }
 const passMemos = new WeakMap<DocumentReport, PassMemo>();
 
@@ -200,10 +215,15 @@ export function analyzeDocument(
 
   // One budget for the whole document: the engine is synchronous and each matrix is bounded
   // by the size caps, so the check between matrices keeps a document within budget plus one matrix.
-  const deadline = Date.now() + settings.timeBudgetMs;
+  // The matrices analysed still need their findings and model analyses after the loop (about a
+  // third of a pass over many small models): the loop stops early enough to leave room for them.
+  const loopDeadline = Date.now() + settings.timeBudgetMs * LOOP_SHARE;
+  const checkDeadline = Date.now() + settings.timeBudgetMs * CHECK_SHARE;
+  const notYetNote = notYetMessage();
   let overBudget = 0;
   const matrices: MatrixReport[] = [];
   const built: { report: MatrixReport; core: MatrixCore; lit: MatrixLiteral }[] = [];
+  const pending: PassMemo['pending'] = new Array(file.matrices.length);
   for (let index = 0; index < file.matrices.length; index++) {
     if (options.isCancelled?.()) break;
     const lit = file.matrices[index];
@@ -215,7 +235,18 @@ export function analyzeDocument(
     }
     const model = modelOf.get(index) ?? null;
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
-    const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, !focused && Date.now() > deadline);
+    const late = !focused && Date.now() > loopDeadline;
+    const waiting = late ? reuse?.pending[index] : undefined;
+    // Still not reached, and the earlier report says so with this budget: take it over, without
+    // the findings its model added in that pass (the model is analysed again below).
+    if (waiting && waiting.report.skipped.length === 1 && waiting.report.skipped[0] === notYetNote && options.cache?.peek(waiting.report.hash) === undefined) {
+      waiting.report.findings.length = waiting.own;
+      matrices.push(waiting.report);
+      pending[index] = waiting;
+      overBudget++;
+      continue;
+    }
+    const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, late);
     // Only matrices actually left unanalysed count (cached ones are always filled in), so a pass
     // over a fully cached document is complete however long building the reports took.
     if (report.skipped.some((s) => s.startsWith(BUDGET_SKIP))) overBudget++;
@@ -232,10 +263,11 @@ export function analyzeDocument(
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
     if (focused) core.closedForm.get();
     else if (options.deferChecks) deferred++;
-    else if (options.isCancelled?.() || Date.now() > deadline) unchecked++;
+    else if (options.isCancelled?.() || Date.now() > checkDeadline) unchecked++;
     else core.closedForm.get();
   }
   for (const { report, core, lit } of built) if (report.role === 'state') report.findings = cachedFindings(report, core, lit, settings);
+  for (const { report } of built) if (report.skipped.length === 1 && report.skipped[0] === notYetNote) pending[report.index] = { report, own: report.findings.length };
   if (overBudget > 0 || unchecked > 0) {
     const parts = [
       overBudget > 0 ? `${overBudget} matri${overBudget === 1 ? 'x was' : 'ces were'} not analysed` : '',
@@ -275,7 +307,7 @@ export function analyzeDocument(
     if (outcome) outcomes.set(m.state, outcome);
   }
   const result: DocumentReport = { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 || deferred > 0 };
-  if (!cancelled && matrices.length > 0) passMemos.set(result, settledParts(file, passKey, options.cache, grouping, modelOf, byIndex, built, models, outcomes, reuse));
+  if (!cancelled && matrices.length > 0) passMemos.set(result, settledParts(file, passKey, options.cache, grouping, modelOf, byIndex, built, models, outcomes, reuse, pending));
   return result;
 }
 
@@ -291,6 +323,7 @@ function settledParts(
   models: ModelReport[],
   outcomes: Map<number, ModelOutcome>,
   reuse: PassMemo | null,
+  pending: PassMemo['pending'],
 ): PassMemo {
   const settled: (MatrixReport | undefined)[] = new Array(file.matrices.length);
   if (reuse) for (let i = 0; i < reuse.settled.length; i++) settled[i] = reuse.settled[i];
@@ -318,7 +351,7 @@ function settledParts(
       for (const i of members) settled[i] = undefined;
     }
   }
-  return { file, settingsKey, cache, grouping, modelOf, settled, models: settledModels };
+  return { file, settingsKey, cache, grouping, modelOf, settled, models: settledModels, pending };
 }
 
 /**
@@ -457,7 +490,7 @@ function reportForMatrix(
   let core = cache?.get(hash);
   if (!core && overBudget && isState) {
     core = emptyCore();
-    core.skipped.push(`${BUDGET_SKIP} of ${settings.timeBudgetMs} ms ran out before this matrix.`);
+    core.skipped.push(notYetMessage());
   } else if (!core) {
     core = isState ? analyseStateMatrix(lit, values, domain, period, settings, file, model, hash, cache?.closedForms ?? null) : emptyCore();
     cache?.set(hash, core);
@@ -565,6 +598,15 @@ function modelKey(file: ExtractedFile, model: ModelGroup | null): string {
     parts.push(idx === null || idx === undefined ? '-' : literalKey(file.matrices[idx]));
   }
   return parts.join('/');
+}
+
+/**
+ * The note on a state matrix the pass's time budget did not reach. It does not name the pass's
+ * budget (passes differ: a hover's, a continuation's), so the report is the same in every
+ * pass that leaves the matrix for later and can be taken over (PassMemo.pending).
+ */
+function notYetMessage(): string {
+  return `${BUDGET_SKIP} (setting eigenlens.timeBudgetMs) ran out before this matrix; a later pass analyses it.`;
 }
 
 function periodOf(v: EntryValue | undefined): number | null {
