@@ -16,8 +16,10 @@ import {
   extractionReady,
   extractSlice,
   initParsers,
+  MAX_JOBS,
   needsSlicedExtraction,
   pendingExtractions,
+  retainExtractionsOf,
   SLICED_EXTRACTION_CHARS,
 } from '../../server/src/syntax/extract';
 import type { SourceLanguage } from '../../server/src/syntax/types';
@@ -82,13 +84,38 @@ describe('extraction in slices', () => {
     const langs = texts.map((_, i): SourceLanguage => (i % 2 === 0 ? 'python' : 'typescript'));
     const done = texts.map(() => false);
     let rounds = 0;
+    let waited = 0;
+    let mostJobs = 0;
     while (done.includes(false) && rounds < 10_000) {
       rounds++;
-      for (let i = 0; i < texts.length; i++) if (!done[i]) done[i] = extractSlice(texts[i], langs[i], undefined, 1, `d${i}`).done;
+      for (let i = 0; i < texts.length; i++) {
+        if (done[i]) continue;
+        const p = extractSlice(texts[i], langs[i], undefined, 1, `d${i}`);
+        done[i] = p.done;
+        if (p.phase === 'waiting') waited++;
+        mostJobs = Math.max(mostJobs, pendingExtractions());
+      }
     }
     expect(done.every(Boolean)).toBe(true);
+    // Past MAX_JOBS a text waits its turn rather than being parsed at once (the WASM heap never shrinks).
+    expect(mostJobs).toBe(MAX_JOBS);
+    expect(waited).toBeGreaterThan(0);
     expect(pendingExtractions()).toBe(0);
     for (let i = 0; i < texts.length; i++) expect(json(extract(texts[i], langs[i]))).toBe(json(extract(texts[i], langs[i], { reuse: false })));
+  });
+
+  it('retaining some texts drops the others\' extractions, and they are read again identically', () => {
+    clearExtractCaches();
+    const a = bigFile(51, 'python');
+    const b = bigFile(52, 'typescript');
+    const before = json(extract(b, 'typescript'));
+    extract(a, 'python');
+    expect(extractionReady(a, 'python')).toBe(true);
+    expect(extractionReady(b, 'typescript')).toBe(true);
+    retainExtractionsOf([a]);
+    expect(extractionReady(a, 'python')).toBe(true);
+    expect(extractionReady(b, 'typescript')).toBe(false);
+    expect(json(extract(b, 'typescript'))).toBe(before);
   });
 
   it('a newer text of the same document replaces its unfinished job; abandoning drops it', () => {

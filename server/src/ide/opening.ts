@@ -74,14 +74,16 @@ export function settledEnd(prefix: DocumentReport): number {
 
 /** How far the reading of a large document has got, as the server reports it. */
 export interface ReadingProgress {
-  phase: 'parsing' | 'reading' | 'done';
+  phase: 'waiting' | 'parsing' | 'reading' | 'done';
   fraction: number;
 }
 
 /** What a hover says below the lines the opening pass covered, while the file is still being read. */
 export function readingHoverMarkdown(progress: ReadingProgress, documentLines: number): string {
+  const lines = documentLines.toLocaleString('en-US');
+  if (progress.phase === 'waiting') return `**eigenlens** will read this file (${lines} lines) once the other large files opened with it are read. Hover again in a moment.`;
   const what = progress.phase === 'parsing' ? 'parsing' : 'reading its statements';
-  return `**eigenlens** is still reading this file (${documentLines.toLocaleString('en-US')} lines; ${what}, ${Math.round(progress.fraction * 100)} %). Hover again in a moment.`;
+  return `**eigenlens** is still reading this file (${lines} lines; ${what}, ${Math.round(progress.fraction * 100)} %). Hover again in a moment.`;
 }
 
 /** Appended to a hover answered from the opening pass: the matrix's own analysis is final, its model findings may not be. */

@@ -11,7 +11,7 @@ import { extractPython, pythonSteps } from './python';
 import { compileNamePatterns } from './roles';
 import { loadedParsers, loadParsers, newParserFor } from './treeSitter';
 import { extractTypeScript, typeScriptSteps } from './typescript';
-import type { ExtractedFile, SourceLanguage } from './types';
+import type { ExtractedFile, MatrixLiteral, SourceLanguage } from './types';
 
 export interface ExtractOptions {
   /** Extra state-matrix names, as regular expressions matched against the whole name. */
@@ -47,6 +47,21 @@ export function clearExtractCaches(): void {
   literalMemo.clear();
   extracted.length = 0;
   for (const job of jobs.splice(0)) endJob(job);
+}
+
+/**
+ * Keeps the trees, extractions and memoised literals of these texts only (the open documents
+ * whose analysis is kept): the rest is dropped to free memory. Results do not change; a text
+ * dropped here is parsed and read again when next extracted. Unfinished sliced extractions are
+ * left alone (their owners decide).
+ */
+export function retainExtractionsOf(texts: readonly string[]): void {
+  const keep = new Set(texts);
+  for (let i = extracted.length - 1; i >= 0; i--) if (!keep.has(extracted[i].text)) extracted.splice(i, 1);
+  parseCache.retainTexts(keep);
+  const literals = new Set<MatrixLiteral>();
+  for (const e of extracted) for (const m of e.file.matrices) literals.add(m);
+  literalMemo.retainMatrices(literals);
 }
 
 /** How many parses were served unchanged, incrementally or from scratch since start. */
@@ -129,13 +144,15 @@ export function extractionReady(text: string, language: SourceLanguage, opts?: E
 /** A full parse of at least this many characters is done in slices (about 25 ms of parsing). */
 export const SLICED_EXTRACTION_CHARS = 100_000;
 /**
- * Unfinished jobs at once (each holds a partial tree). A job is never dropped to make room for
- * another — round-robin slices over more documents than jobs would then restart every parse
- * and none would finish — so past this many, a large text is extracted at once instead.
- * A job not stepped for STALE_JOB_MS (its document went away unnoticed) is dropped.
+ * Unfinished jobs at once. Each holds a parser and a partial tree in tree-sitter's WASM heap,
+ * which never shrinks (about 65 bytes per character, see incrementalParse.ts): ten large
+ * files opened together once grew it by 50 MB with four jobs and the rest parsed at once. A job is never dropped to make room for another (round-robin
+ * slices over more documents than jobs would then restart every parse and none would finish),
+ * so past this many a text waits ('waiting') until a job finishes. A job not stepped for
+ * STALE_JOB_MS (its document went away unnoticed) is dropped.
  */
-const MAX_JOBS = 4;
-const STALE_JOB_MS = 30_000;
+export const MAX_JOBS = 1;
+const STALE_JOB_MS = 10_000;
 /** Every slice makes at least this much progress, however late it is called. */
 const MIN_SLICE_MS = 5;
 
@@ -160,8 +177,8 @@ const jobs: ExtractionJob[] = [];
 export interface ExtractionProgress {
   /** The extraction is remembered: `extract` (and so analyzeDocument) answers at once. */
   done: boolean;
-  /** 'parsing' or 'reading' while not done. */
-  phase: 'parsing' | 'reading' | 'done';
+  /** 'parsing' or 'reading' while not done; 'waiting' for other texts' jobs to finish first. */
+  phase: 'waiting' | 'parsing' | 'reading' | 'done';
   /** Share of the text the current phase has covered, 0–1. */
   fraction: number;
 }
@@ -210,12 +227,13 @@ export function extractSlice(text: string, language: SourceLanguage, opts: Extra
     const now = performance.now();
     for (let i = jobs.length - 1; i >= 0; i--) if (now - jobs[i].steppedAt > STALE_JOB_MS) endJob(jobs.splice(i, 1)[0]);
     if (
-      opts?.reuse === false || language === 'lti' || !parsers || text.length < SLICED_EXTRACTION_CHARS || jobs.length >= MAX_JOBS ||
+      opts?.reuse === false || language === 'lti' || !parsers || text.length < SLICED_EXTRACTION_CHARS ||
       parseCache.canReuse(language, text) || quickExtract(key, text, language)
     ) {
       extract(text, language, opts);
       return { done: true, phase: 'done', fraction: 1 };
     }
+    if (jobs.length >= MAX_JOBS) return { done: false, phase: 'waiting', fraction: 0 };
     const parser = newParserFor(language === 'python' ? parsers.python : parsers.typescript);
     jobs.push({ key, text, language, owner: owner ?? null, parser, tree: null, steps: null, readTo: 0, slices: 0, steppedAt: now });
   } else {

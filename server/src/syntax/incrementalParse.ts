@@ -30,15 +30,17 @@ interface CachedParse {
 /**
  * How many texts are kept: the documents being edited. A tree is needed only when a text
  * changes (an unchanged text reuses its extraction, see extract.ts), so a document not
- * edited lately gives its tree up and pays one full parse at its next edit.
+ * edited lately gives its tree up and pays one full parse at its next edit. Three, as the
+ * server keeps the analyses of three documents by default (eigenlens.documentsKept).
  */
-export const PARSE_CACHE_SIZE = 4;
+export const PARSE_CACHE_SIZE = 3;
 /**
- * And at most this many characters of text in all: a tree takes about 30 bytes per character
- * of source in tree-sitter's WASM heap, which never shrinks, so this bounds that heap to
- * tens of MB; the newest tree is always kept.
+ * And at most this many characters of text in all: a tree of a file of generated matrices
+ * takes about 65 bytes per character of source in tree-sitter's WASM heap (measured: 9 MB for
+ * a 138,000-character Python file), and that heap never shrinks, so this bounds it to about
+ * 40 MB; the newest tree is always kept.
  */
-export const PARSE_CACHE_CHARS = 1_000_000;
+export const PARSE_CACHE_CHARS = 600_000;
 
 /**
  * Reuse pays off when most of the text is unchanged; below this share of the longer text a
@@ -170,6 +172,16 @@ export class ParseCache {
   clear(): void {
     for (const e of this.entries) e.tree.delete();
     this.entries = [];
+  }
+
+  /** Deletes the trees of every text not in `texts`. */
+  retainTexts(texts: ReadonlySet<string>): void {
+    const kept: CachedParse[] = [];
+    for (const e of this.entries) {
+      if (texts.has(e.text)) kept.push(e);
+      else e.tree.delete();
+    }
+    this.entries = kept;
   }
 
   get size(): number {

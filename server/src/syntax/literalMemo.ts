@@ -247,6 +247,16 @@ export class LiteralMemo {
     this.inert.clear();
   }
 
+  /**
+   * Keeps only the entries whose matrix is one of `matrices` (those of the texts still held),
+   * and forgets the inert statements: the rest belonged to documents whose analysis was
+   * released. Results do not change; the next extraction of a released text builds again.
+   */
+  retainMatrices(matrices: ReadonlySet<MatrixLiteral>): void {
+    for (const [key, e] of [...this.entries]) if (e.matrix === null || !matrices.has(e.matrix)) this.forget(key, e);
+    this.inert.clear();
+  }
+
   get size(): number {
     return this.entries.size;
   }
