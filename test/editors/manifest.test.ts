@@ -29,7 +29,8 @@ describe('package.json contributes', () => {
       expect(setting, key).toBeDefined();
       expect(typeof setting.description).toBe('string');
       expect(setting.type).toBeDefined();
-      expect(setting.scope).toBe('resource');
+      // documentsKept counts the window's open documents, so it is a window setting; the rest may differ per folder.
+      expect(setting.scope).toBe(key === SettingKeys.documentsKept ? 'window' : 'resource');
     }
     for (const key of Object.keys(properties)) expect(key.startsWith(`${SETTINGS_SECTION}.`)).toBe(true);
     // The language client reads `<client id>.trace.server`; the id is 'eigenlens'.

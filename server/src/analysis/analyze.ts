@@ -27,7 +27,7 @@ import { lineColumnAt } from './position';
 import { analyseModel } from './modelAnalysis';
 
 export { DEFAULT_SETTINGS } from './settings';
-export { abandonExtractions, extractSlice, needsSlicedExtraction, type ExtractionProgress } from '../syntax/extract';
+export { abandonExtractions, extractSlice, needsSlicedExtraction, retainExtractionsOf, type ExtractionProgress } from '../syntax/extract';
 
 /** Largest |entry| analysed: leaves about 150 decades of headroom for products and exponentials. */
 export const MAX_ENTRY_MAGNITUDE = 1e150;
@@ -117,6 +117,17 @@ export class AnalysisCache {
   }
   get size(): number {
     return this.map.size;
+  }
+  /**
+   * Keeps only the analyses of these matrix hashes (with their model analyses and closed
+   * forms): the matrices of the documents whose analysis is kept. The rest is dropped to free
+   * memory; a matrix dropped here is analysed again when next needed.
+   */
+  retain(hashes: ReadonlySet<string>): void {
+    for (const key of [...this.map.keys()]) if (!hashes.has(key)) this.map.delete(key);
+    // Model keys start with the state matrix's hash (cachedModelAnalysis).
+    for (const key of [...this.models.keys()]) if (!hashes.has(key.slice(0, key.indexOf('|')))) this.models.delete(key);
+    this.closedForms.retain(hashes);
   }
 }
 

@@ -57,6 +57,15 @@ export class ClosedFormStore {
     }
   }
 
+  /** Drops every closed form whose key is not in `keys`. */
+  retain(keys: ReadonlySet<string>): void {
+    for (const [key, entry] of [...this.map]) {
+      if (keys.has(key)) continue;
+      this.map.delete(key);
+      this.terms -= entry.terms;
+    }
+  }
+
   get size(): number {
     return this.map.size;
   }

@@ -11,12 +11,17 @@ export interface IdeSettings {
   codeLensEnabled: boolean;
   /** Significant digits of inexact entries in generated code; 17 = shortest round-trip text of a double. */
   codePrecision: number;
+  /** Open documents whose analysis stays in memory, the most recently used; the others keep their diagnostics only. */
+  documentsKept: number;
 }
+
+/** Three: a document and the two beside it in a split editor; more open files cost memory (see README, Performance). */
+export const DEFAULT_DOCUMENTS_KEPT = 3;
 
 /** 17 significant digits always round-trip a double (IEEE 754-2008, §5.12.2), so that is the default for generated code. */
 export const DEFAULT_CODE_PRECISION = 17;
 
-export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true, codePrecision: DEFAULT_CODE_PRECISION };
+export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true, codePrecision: DEFAULT_CODE_PRECISION, documentsKept: DEFAULT_DOCUMENTS_KEPT };
 
 const DISCRETIZE_METHODS = ['zoh', 'tustin', 'euler', 'backward-euler', 'foh'] as const;
 
@@ -77,7 +82,8 @@ export function settingsFromUser(raw: unknown): IdeSettings {
   if (typeof nested === 'boolean') codeLensEnabled = nested;
   else if (typeof flat === 'boolean') codeLensEnabled = flat;
   const codePrecision = integerIn(user.codePrecision, 2, 17) ?? DEFAULT_CODE_PRECISION;
-  return { analysis, codeLensEnabled, codePrecision };
+  const documentsKept = integerIn(user.documentsKept, 1, 1000) ?? DEFAULT_DOCUMENTS_KEPT;
+  return { analysis, codeLensEnabled, codePrecision, documentsKept };
 }
 
 function isValidRegex(source: string): boolean {

@@ -29,7 +29,7 @@ import {
   type CancellationToken,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
-import { abandonExtractions, AnalysisCache, analyzeDocument, extractSlice, initAnalysis, needsSlicedExtraction } from '../analysis/analyze';
+import { abandonExtractions, AnalysisCache, analyzeDocument, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
 import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
@@ -96,6 +96,8 @@ export const OPENING_SLICE_MS = 60;
  * (syntax/extract.ts `extractSlice`); requests are answered between slices.
  */
 export const READ_SLICE_MS = 40;
+/** A large document waiting for other documents' reading (syntax/extract.ts, MAX_JOBS) asks again after this long. */
+const WAITING_READ_MS = 25;
 
 const LANGUAGE_IDS: Record<string, SourceLanguage> = {
   python: 'python',
@@ -210,6 +212,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     pass: 'slice' | 'interactive' | 'command',
     opts: { deferChecks?: boolean; focus?: number; continuation?: boolean } = {},
   ): Promise<ReportAnswer | null> {
+    if (pass !== 'slice') used(doc.uri);
     await ready;
     const language = languageOf(doc);
     if (!language) return null;
@@ -266,7 +269,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       const latest = documents.get(doc.uri);
       if (!latest || latest.version !== doc.version || token?.isCancellationRequested) return false;
       if (readSlice(doc, language, settings)) return true;
-      await new Promise<void>((resolve) => setImmediate(resolve));
+      if (readingProgress.get(doc.uri)?.phase === 'waiting') await new Promise<void>((resolve) => setTimeout(resolve, WAITING_READ_MS));
+      else await new Promise<void>((resolve) => setImmediate(resolve));
     }
   }
 
@@ -301,6 +305,57 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   function coversFocus(report: DocumentReport, offset: number): boolean {
     const m = report.matrices.find((x) => x.statementSpan.start <= offset && offset <= x.statementSpan.end);
     return !m || !m.skipped.some((s) => s.startsWith(NOT_YET_PREFIX)) && (m.role !== 'state' || m.spectrum !== null || m.skipped.length > 0);
+  }
+
+  /** When each open document was last opened, edited or asked about (a counter, not a time). */
+  const lastUsed = new Map<string, number>();
+  let useCount = 0;
+  /** Open documents whose analysis was released (see releaseUnused); their diagnostics stay as published. */
+  const released = new Set<string>();
+
+  /** The document is in use; one whose analysis was released is analysed again, as after an open. */
+  function used(uri: string): void {
+    lastUsed.set(uri, ++useCount);
+    if (released.delete(uri)) {
+      // Its lenses say "analysing…" until the passes are done, then the client is asked to refresh them.
+      unfinished.add(uri);
+      continuing.add(uri);
+      scheduleDiagnostics(uri, 0);
+    }
+  }
+
+  /**
+   * With every document analysed, keeps the analyses of the `documentsKept` most recently used
+   * open documents and frees the others': their reports, syntax trees, extractions, and the
+   * cached matrix analyses and closed forms no kept document uses. Ten open 5,000-line files
+   * otherwise hold about 90 MB of analyses. A released document keeps its published
+   * diagnostics, and is analysed again when it is next edited or asked about.
+   */
+  async function releaseUnused(): Promise<void> {
+    if (timers.size > 0 || unfinished.size > 0) return;
+    const open = documents.all();
+    const keep = Math.min(...(await Promise.all(open.map((d) => settingsFor(d.uri)))).map((s) => s.documentsKept), Number.POSITIVE_INFINITY);
+    if (timers.size > 0 || unfinished.size > 0 || open.length <= keep) return;
+    const byUse = [...open].sort((a, b) => (lastUsed.get(b.uri) ?? 0) - (lastUsed.get(a.uri) ?? 0));
+    const newlyReleased = byUse.slice(keep).filter((d) => !released.has(d.uri) && reports.has(d.uri));
+    if (newlyReleased.length === 0) return;
+    for (const d of newlyReleased) {
+      released.add(d.uri);
+      reports.delete(d.uri);
+      openings.delete(d.uri);
+      readingProgress.delete(d.uri);
+      abandonExtractions(d.uri);
+    }
+    const hashes = new Set<string>();
+    const texts: string[] = [];
+    for (const d of open) {
+      if (released.has(d.uri)) continue;
+      texts.push(d.getText());
+      for (const m of reports.get(d.uri)?.report.matrices ?? []) hashes.add(m.hash);
+    }
+    matrixCache.retain(hashes);
+    retainExtractionsOf(texts);
+    if (TRACE) process.stderr.write(`released the analyses of ${newlyReleased.length} documents; kept ${texts.length}\n`);
   }
 
   /** Documents whose opening pass ran (or was not needed). */
@@ -369,7 +424,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         unfinished.add(uri);
         const p = readingProgress.get(uri);
         if (TRACE) process.stderr.write(`read ${uri} v${doc.version}: ${(performance.now() - R0).toFixed(1)} ms, ${p?.phase} ${Math.round((p?.fraction ?? 0) * 100)} %\n`);
-        scheduleDiagnostics(uri, 0);
+        scheduleDiagnostics(uri, p?.phase === 'waiting' ? WAITING_READ_MS : 0);
         return;
       }
     }
@@ -403,7 +458,10 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     } else {
       // Lenses asked for while the document was being analysed said "analysing…": ask again.
       if (unfinished.delete(uri) && canRefreshLenses) connection.sendRequest('workspace/codeLens/refresh').catch(() => undefined);
-      if (timers.size === 0) idle.touch();
+      if (timers.size === 0) {
+        await releaseUnused();
+        idle.touch();
+      }
     }
   }
 
@@ -461,12 +519,15 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   // replace the immediate pass of the open with a debounced one.
   const justOpened = new Set<string>();
   documents.onDidOpen((e) => {
+    lastUsed.set(e.document.uri, ++useCount);
     justOpened.add(e.document.uri);
     scheduleDiagnostics(e.document.uri, 0);
   });
   documents.onDidChangeContent((e) => {
     if (TRACE) changedAt.set(e.document.uri, performance.now());
     if (justOpened.delete(e.document.uri)) return;
+    lastUsed.set(e.document.uri, ++useCount);
+    released.delete(e.document.uri);
     scheduleDiagnostics(e.document.uri);
   });
   documents.onDidClose(
@@ -478,6 +539,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       openings.delete(e.document.uri);
       readingProgress.delete(e.document.uri);
       lastPublished.delete(e.document.uri);
+      lastUsed.delete(e.document.uri);
+      released.delete(e.document.uri);
       abandonExtractions(e.document.uri);
       justOpened.delete(e.document.uri);
       opened.delete(e.document.uri);
@@ -604,6 +667,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       return {
         memoryMB: { rss: mb(m.rss), heapUsed: mb(m.heapUsed), heapTotal: mb(m.heapTotal), external: mb(m.external) },
         documents: documents.all().length,
+        released: released.size,
         matrixCache: { size: matrixCache.size, hits: matrixCache.hits, misses: matrixCache.misses },
         closedForms: { held: matrixCache.closedForms.size, terms: matrixCache.closedForms.heldTerms, builds: matrixCache.closedForms.builds },
         idleCollections: idle.collections,

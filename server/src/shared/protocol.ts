@@ -19,6 +19,8 @@ export const SettingKeys = {
   discretizeMethod: 'discretizeMethod',
   /** Significant digits of inexact entries in generated code (2..17; 17 = shortest round-trip). */
   codePrecision: 'codePrecision',
+  /** How many open documents keep their analysis in memory (the most recently used). */
+  documentsKept: 'documentsKept',
 } as const;
 
 /** The settings as the client sends them (`workspace/configuration` for section `eigenlens`). */
@@ -32,6 +34,7 @@ export interface EigenlensUserSettings {
   stateMatrixNames?: string[];
   discretizeMethod?: 'zoh' | 'tustin' | 'euler' | 'backward-euler' | 'foh' | null;
   codePrecision?: number;
+  documentsKept?: number;
 }
 
 /**
@@ -78,6 +81,8 @@ export const StatsRequestMethod = 'eigenlens/stats';
 export interface StatsRequestResult {
   memoryMB: { rss: number; heapUsed: number; heapTotal: number; external: number };
   documents: number;
+  /** Open documents whose analysis was freed (setting documentsKept); they keep their diagnostics. */
+  released: number;
   matrixCache: { size: number; hits: number; misses: number };
   closedForms: { held: number; terms: number; builds: number };
   /** Full collections the idle collector ran. */
