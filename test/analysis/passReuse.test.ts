@@ -100,4 +100,18 @@ describe('passes that reuse what earlier passes settled', () => {
     const again = analyzeDocument(handWritten, 'python', discrete, { cache, previous: first });
     expect(json(again)).toBe(json(analyzeDocument(handWritten, 'python', discrete, { cache: new AnalysisCache() })));
   });
+
+  it('after lines are added above, moved matrices keep their analyses and every span is the fresh one', () => {
+    // The literals below the edit are copies moved by the edit (syntax/literalMemo.ts); their
+    // cached keys and values carry over, their spans must not.
+    const { text } = generateSourceFile(61, 'python', { lines: 400, count: 40 }) as { text: string };
+    const cache = new AnalysisCache();
+    analyzeDocument(text, 'python', unhurried, { cache });
+    const edited = `# two lines\n# added above\n${text}`;
+    const misses = cache.misses;
+    const moved = analyzeDocument(edited, 'python', unhurried, { cache });
+    expect(cache.misses).toBe(misses); // nothing analysed again
+    expect(json(moved)).toBe(json(analyzeDocument(edited, 'python', unhurried, { cache: new AnalysisCache() })));
+    expect(moved.matrices[0].entrySpans[0][0].start).toBeGreaterThan(text.indexOf('[') + 20);
+  });
 });

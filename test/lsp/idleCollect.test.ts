@@ -31,4 +31,13 @@ describe('IdleCollector', () => {
     await sleep(60);
     expect(idle.collections).toBe(0);
   });
+
+  it('skips the collection when the heap would take longer than its pause bound', async () => {
+    // The bound is tiny here, so any heap is "too large": the quiet period passes without a pause.
+    const idle = new IdleCollector(20, 0.001);
+    idle.touch();
+    await sleep(60);
+    expect(idle.collections).toBe(0);
+    expect(idle.skipped).toBe(1);
+  });
 });

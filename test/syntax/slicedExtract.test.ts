@@ -13,6 +13,7 @@ import {
   abandonExtractions,
   clearExtractCaches,
   extract,
+  extractCacheStats,
   extractionReady,
   extractSlice,
   initParsers,
@@ -133,13 +134,24 @@ describe('extraction in slices', () => {
     expect(json(extract(edited, 'python'))).toBe(json(extract(edited, 'python', { reuse: false })));
   });
 
-  it('small texts and texts with a reusable tree are extracted at once', () => {
+  it('small texts and edits inside one entry are extracted at once; other edits of a large text are read in slices from its updated tree', () => {
     clearExtractCaches();
     expect(extractSlice('A = [[0, 1], [-2, -3]]\n', 'python', undefined, 1).done).toBe(true);
     const text = bigFile(51, 'typescript');
     extract(text, 'typescript');
+    // A digit typed inside an entry: re-read without the parser.
+    const digit = text.replace(/(\[\s*-?)(\d)/, '$1$2$2');
+    expect(digit).not.toBe(text);
+    expect(needsSlicedExtraction(digit, 'typescript')).toBe(false);
+    expect(extractSlice(digit, 'typescript', undefined, 1).done).toBe(true);
+    // A line added: the tree is reused (no full parse), the statements are read in slices.
     const edited = text.replace('\n', '\n// one more line\n');
-    expect(needsSlicedExtraction(edited, 'typescript')).toBe(false);
-    expect(extractSlice(edited, 'typescript', undefined, 1).done).toBe(true);
+    expect(needsSlicedExtraction(edited, 'typescript')).toBe(true);
+    const full = extractCacheStats().parses.full;
+    const slices = readInSlices(edited, 'typescript', 1, 'doc');
+    expect(slices).toBeGreaterThan(1);
+    expect(extractCacheStats().parses.full).toBe(full);
+    expect(pendingExtractions()).toBe(0);
+    expect(json(extract(edited, 'typescript'))).toBe(json(extract(edited, 'typescript', { reuse: false })));
   });
 });

@@ -16,6 +16,7 @@ import { stabilityOf } from '../engine/stability';
 import { modesOf } from '../engine/modes';
 import { ClosedFormSlot, ClosedFormStore } from './closedFormSlot';
 import { extract, initParsers } from '../syntax/extract';
+import { onLiteralMoved } from '../syntax/literalMemo';
 import { groupModels } from '../model/group';
 import type { ExtractedFile, MatrixLiteral, SourceLanguage, EntryValue } from '../syntax/types';
 import type { ModelGroup } from '../model/types';
@@ -592,6 +593,17 @@ function settingsKey(s: AnalysisSettings): string {
 
 /** Entry values and spans as the report carries them, built once per literal object. */
 const literalArrayCache = new WeakMap<MatrixLiteral, { values: (EntryValue | null)[][]; entrySpans: MatrixReport['entrySpans'] }>();
+// A literal moved by an edit has the same content: its key, hash and entry values carry over
+// (its entry spans are read again, as they moved).
+onLiteralMoved((from, to) => {
+  const key = literalKeys.get(from);
+  if (key !== undefined) literalKeys.set(to, key);
+  const hash = literalHashes.get(from);
+  if (hash) literalHashes.set(to, hash);
+  const arrays = literalArrayCache.get(from);
+  if (arrays) literalArrayCache.set(to, { values: arrays.values, entrySpans: to.rows.map((row) => row.map((e) => e.span)) });
+});
+
 function literalArrays(lit: MatrixLiteral): { values: (EntryValue | null)[][]; entrySpans: MatrixReport['entrySpans'] } {
   let arrays = literalArrayCache.get(lit);
   if (!arrays) {

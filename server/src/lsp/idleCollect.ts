@@ -31,12 +31,29 @@ function collectorOf(): (() => void) | null {
   return collector;
 }
 
+/**
+ * The longest pause an idle collection may cost: a request arriving during it waits that long.
+ * The collection is a full, compacting one and stops everything for about 2–2.5 ms per MB of
+ * live heap (measured on Node 20 here: 42 ms at 17 MB, 195 ms at 91 MB, 481 ms at 191 MB),
+ * so a heap expected to take longer is left to V8's own incremental collections.
+ */
+export const IDLE_COLLECT_MAX_PAUSE_MS = 200;
+/** Pause per MB of live heap assumed until one collection was measured. */
+const INITIAL_MS_PER_MB = 2.5;
+
 export class IdleCollector {
   private timer: NodeJS.Timeout | null = null;
   private dirty = false;
   collections = 0;
+  /** Quiet periods in which the heap was too large to collect within IDLE_COLLECT_MAX_PAUSE_MS. */
+  skipped = 0;
+  /** Measured pause per MB of live heap (the latest collection). */
+  private msPerMB = INITIAL_MS_PER_MB;
 
-  constructor(private readonly quietMs = IDLE_COLLECT_MS) {}
+  constructor(
+    private readonly quietMs = IDLE_COLLECT_MS,
+    private readonly maxPauseMs = IDLE_COLLECT_MAX_PAUSE_MS,
+  ) {}
 
   /** Work happened: collect after the next quiet period. */
   touch(): void {
@@ -59,6 +76,12 @@ export class IdleCollector {
     this.dirty = false;
     const gc = collectorOf();
     if (!gc) return;
+    const liveMB = process.memoryUsage().heapUsed / 2 ** 20;
+    if (liveMB * this.msPerMB > this.maxPauseMs) {
+      this.skipped++;
+      return;
+    }
+    const started = performance.now();
     // A full collection frees the garbage; then "last-resort" (measured on Node 20: alone it
     // does nothing, after a full one it releases the freed pages to the system).
     // A full collection compacts only a few fragmented pages; the heap of a server that read
@@ -78,6 +101,7 @@ export class IdleCollector {
     } finally {
       if (compacting) setFlagsFromString('--no-compact-on-every-full-gc');
     }
+    this.msPerMB = Math.max(0.1, (performance.now() - started) / Math.max(1, liveMB));
     this.collections++;
   }
 }

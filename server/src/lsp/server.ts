@@ -96,6 +96,28 @@ export const OPENING_SLICE_MS = 60;
  * (syntax/extract.ts `extractSlice`); requests are answered between slices.
  */
 export const READ_SLICE_MS = 40;
+/**
+ * Event-loop turns a pass gives up before it starts. The JSON-RPC layer moves a message
+ * through several immediates (read, queue, handler, write), and a pass started from a timer
+ * runs before the next of them: requests arriving while passes ran back to back waited one
+ * pass per step (measured: a lens request 200 ms to start, its answer another pass to leave).
+ * Each turn lets every message in flight take one step; an idle loop turns in microseconds.
+ */
+const YIELD_TURNS = 5;
+
+/**
+ * How long a pass waits for a large answer to leave. A pipe takes about 64 KB per event-loop
+ * turn, so a 1.7 MB list of lenses (10,000 matrices) written just before a pass otherwise
+ * trickled out over many passes while the editor waited.
+ */
+const DRAIN_WAIT_MS = 100;
+
+async function yieldToRequests(): Promise<void> {
+  for (let i = 0; i < YIELD_TURNS; i++) await new Promise<void>((resolve) => setImmediate(resolve));
+  const until = performance.now() + DRAIN_WAIT_MS;
+  while (process.stdout.writableLength > 0 && performance.now() < until) await new Promise<void>((resolve) => setTimeout(resolve, 1));
+}
+
 /** A large document waiting for other documents' reading (syntax/extract.ts, MAX_JOBS) asks again after this long. */
 const WAITING_READ_MS = 25;
 
@@ -153,6 +175,16 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   const settingsCache = new Map<string, Promise<IdeSettings>>();
   const timers = new Map<string, NodeJS.Timeout>();
   const idle = new IdleCollector();
+  // EIGENLENS_TRACE=1: every stretch of more than 50 ms in which the event loop could not answer a request.
+  if (TRACE) {
+    let last = performance.now();
+    setInterval(() => {
+      const now = performance.now();
+      if (now - last > 60) process.stderr.write(`@${now.toFixed(0)} blocked for about ${(now - last - 10).toFixed(0)} ms\n`);
+      last = now;
+    }, 10).unref();
+    process.stdin.on('data', (chunk: Buffer) => process.stderr.write(`@${performance.now().toFixed(0)} received ${chunk.length} bytes: ${chunk.toString('utf8', 0, 200).replace(/\s+/g, ' ').replace(/.*"method":"([^"]+)".*/, '$1')}\n`));
+  }
   let canPullConfiguration = false;
   let canRegisterConfigurationChange = false;
   /** The client resolves code action edits lazily (codeAction/resolve with `edit`). */
@@ -172,11 +204,15 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   /** Runs a handler; an exception becomes a log line and the fallback answer. */
   function guarded<P extends unknown[], R>(name: string, fallback: R, handler: (...args: P) => R | Promise<R>): (...args: P) => Promise<R> {
     return async (...args: P) => {
+      const started = TRACE ? performance.now() : 0;
+      if (TRACE && name !== 'diagnostics') process.stderr.write(`@${started.toFixed(0)} ${name}: started\n`);
       try {
         return await handler(...args);
       } catch (err) {
         log(`${name} failed: ${err instanceof Error ? (err.stack ?? err.message) : String(err)}`);
         return fallback;
+      } finally {
+        if (TRACE) process.stderr.write(`@${performance.now().toFixed(0)} ${name}: answered in ${(performance.now() - started).toFixed(1)} ms\n`);
       }
     };
   }
@@ -270,7 +306,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       if (!latest || latest.version !== doc.version || token?.isCancellationRequested) return false;
       if (readSlice(doc, language, settings)) return true;
       if (readingProgress.get(doc.uri)?.phase === 'waiting') await new Promise<void>((resolve) => setTimeout(resolve, WAITING_READ_MS));
-      else await new Promise<void>((resolve) => setImmediate(resolve));
+      await yieldToRequests();
     }
   }
 
@@ -393,7 +429,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const T2 = performance.now();
     const diagnostics = openingDiagnostics(report, prefix, doc.lineCount).map((d) => toDiagnostic(doc, d));
     await connection.sendDiagnostics({ uri: doc.uri, version: doc.version, diagnostics });
-    if (TRACE) process.stderr.write(`opening ${doc.uri}: parsers ready after ${(T1 - T0).toFixed(1)} ms, ${cut} characters analysed in ${(T2 - T1).toFixed(1)} ms, ${diagnostics.length} diagnostics sent\n`);
+    if (TRACE) process.stderr.write(`@${performance.now().toFixed(0)} opening ${doc.uri}: parsers ready after ${(T1 - T0).toFixed(1)} ms, ${cut} characters analysed in ${(T2 - T1).toFixed(1)} ms, ${diagnostics.length} diagnostics sent\n`);
     return true;
   }
 
@@ -423,7 +459,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       if (!readSlice(doc, language, settings)) {
         unfinished.add(uri);
         const p = readingProgress.get(uri);
-        if (TRACE) process.stderr.write(`read ${uri} v${doc.version}: ${(performance.now() - R0).toFixed(1)} ms, ${p?.phase} ${Math.round((p?.fraction ?? 0) * 100)} %\n`);
+        if (TRACE) process.stderr.write(`@${performance.now().toFixed(0)} read ${uri} v${doc.version}: ${(performance.now() - R0).toFixed(1)} ms, ${p?.phase} ${Math.round((p?.fraction ?? 0) * 100)} %\n`);
         scheduleDiagnostics(uri, p?.phase === 'waiting' ? WAITING_READ_MS : 0);
         return;
       }
@@ -448,7 +484,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const T2 = performance.now();
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
     // EIGENLENS_TRACE=1: one line per diagnostics pass on stderr (for profiling; see DEVELOPERS.md).
-    if (TRACE) process.stderr.write(`pass ${uri} v${doc.version}${continuation ? ' (continued)' : ''}: ${changedAt.has(uri) ? `${(performance.now() - changedAt.get(uri)!).toFixed(1)} ms after the change, ` : ''}report ${(T1 - T0).toFixed(1)} ms, convert ${(T2 - T1).toFixed(1)} ms, send ${(performance.now() - T2).toFixed(1)} ms, ${diagnostics.length} diagnostics${result.report.incomplete ? ', more to do' : ''}\n`);
+    if (TRACE) process.stderr.write(`@${performance.now().toFixed(0)} pass ${uri} v${doc.version}${continuation ? ' (continued)' : ''}: ${changedAt.has(uri) ? `${(performance.now() - changedAt.get(uri)!).toFixed(1)} ms after the change, ` : ''}report ${(T1 - T0).toFixed(1)} ms, convert ${(T2 - T1).toFixed(1)} ms, send ${(performance.now() - T2).toFixed(1)} ms, ${diagnostics.length} diagnostics${result.report.incomplete ? ', more to do' : ''}\n`);
     // Big documents are analysed in slices: publish what is known, then continue (the matrix
     // cache keeps every finished matrix, so each pass gets further) until the report is complete.
     if (result.report.incomplete) {
@@ -473,7 +509,11 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       uri,
       setTimeout(() => {
         timers.delete(uri);
-        void guarded('diagnostics', undefined, publishDiagnostics)(uri);
+        void guarded('diagnostics', undefined, async (u: string) => {
+          await yieldToRequests();
+          // A newer schedule (an edit while yielding) replaces this pass.
+          if (!timers.has(u)) await publishDiagnostics(u);
+        })(uri);
       }, delay),
     );
   }
@@ -671,6 +711,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         matrixCache: { size: matrixCache.size, hits: matrixCache.hits, misses: matrixCache.misses },
         closedForms: { held: matrixCache.closedForms.size, terms: matrixCache.closedForms.heldTerms, builds: matrixCache.closedForms.builds },
         idleCollections: idle.collections,
+        idleCollectionsSkipped: idle.skipped,
       };
     }),
   );

@@ -87,6 +87,8 @@ export interface StatsRequestResult {
   closedForms: { held: number; terms: number; builds: number };
   /** Full collections the idle collector ran. */
   idleCollections: number;
+  /** Quiet periods whose collection was skipped: the heap was too large to collect without a long pause. */
+  idleCollectionsSkipped: number;
 }
 
 /** Custom request: the closed-form transition matrix of one state matrix as plain text. */

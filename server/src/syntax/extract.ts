@@ -192,12 +192,14 @@ function endJob(job: ExtractionJob): void {
 }
 
 /**
- * `extract` of this text would parse it in full at a size `extractSlice` does in slices (no
- * remembered extraction, no reusable tree): a caller that must answer quickly should not call it.
+ * `extract` of this text would parse or read it in full at a size `extractSlice` does in
+ * slices (no remembered extraction, and no edit inside one entry of a recent text): a caller
+ * that must answer quickly should not call it. A reusable tree does not make it quick: the
+ * parse is, but reading 10,000 statements again after a line was added took 400 ms.
  */
 export function needsSlicedExtraction(text: string, language: SourceLanguage, opts?: ExtractOptions): boolean {
   if (language === 'lti' || text.length < SLICED_EXTRACTION_CHARS || !loadedParsers()) return false;
-  return !extractionReady(text, language, opts) && !parseCache.canReuse(language, text);
+  return !extractionReady(text, language, opts) && quickExtract(keyOf(language, opts), text, language) === null;
 }
 
 /** Drops unfinished sliced extractions started for `owner` (a document that changed or closed). */
@@ -226,16 +228,25 @@ export function extractSlice(text: string, language: SourceLanguage, opts: Extra
     if (owner !== undefined) abandonExtractions(owner);
     const now = performance.now();
     for (let i = jobs.length - 1; i >= 0; i--) if (now - jobs[i].steppedAt > STALE_JOB_MS) endJob(jobs.splice(i, 1)[0]);
-    if (
-      opts?.reuse === false || language === 'lti' || !parsers || text.length < SLICED_EXTRACTION_CHARS ||
-      parseCache.canReuse(language, text) || quickExtract(key, text, language)
-    ) {
+    if (opts?.reuse === false || language === 'lti' || !parsers || text.length < SLICED_EXTRACTION_CHARS || quickExtract(key, text, language)) {
       extract(text, language, opts);
       return { done: true, phase: 'done', fraction: 1 };
     }
     if (jobs.length >= MAX_JOBS) return { done: false, phase: 'waiting', fraction: 0 };
-    const parser = newParserFor(language === 'python' ? parsers.python : parsers.typescript);
-    jobs.push({ key, text, language, owner: owner ?? null, parser, tree: null, steps: null, readTo: 0, slices: 0, steppedAt: now });
+    if (parseCache.canReuse(language, text)) {
+      // An edit of a large text: the incremental parse is quick and done now; the statements are
+      // read in slices from a copy of the tree (the cache may evict its own before the job ends).
+      const tree = parseCache.parse(language === 'python' ? parsers.python : parsers.typescript, language, text);
+      if (tree) {
+        jobs.push({ key, text, language, owner: owner ?? null, parser: null, tree: tree.copy(), steps: null, readTo: 0, slices: 0, steppedAt: now });
+      } else {
+        extract(text, language, opts);
+        return { done: true, phase: 'done', fraction: 1 };
+      }
+    } else {
+      const parser = newParserFor(language === 'python' ? parsers.python : parsers.typescript);
+      jobs.push({ key, text, language, owner: owner ?? null, parser, tree: null, steps: null, readTo: 0, slices: 0, steppedAt: now });
+    }
   } else {
     jobs.push(jobs.splice(index, 1)[0]);
   }

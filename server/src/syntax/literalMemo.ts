@@ -126,6 +126,18 @@ function sameValue(a: EntryValue | undefined, b: EntryValue | undefined): boolea
 const shift = (s: Span, by: number): Span => ({ start: s.start + by, end: s.end + by });
 const shiftOrNull = (s: Span | null, by: number): Span | null => (s === null ? null : shift(s, by));
 
+/**
+ * Called with each literal copied to a new position: caches keyed on the literal object
+ * (analysis/analyze.ts: content key, hash, entry values) carry over to the copy, as its
+ * content is the same. Without it, an edit near the top of a file of 10,000 matrices
+ * re-hashed and re-converted every one of them (about 250 ms).
+ */
+let movedListener: ((from: MatrixLiteral, to: MatrixLiteral) => void) | null = null;
+
+export function onLiteralMoved(listener: (from: MatrixLiteral, to: MatrixLiteral) => void): void {
+  movedListener = listener;
+}
+
 /** A fresh copy of `m` with every span moved by `by` and the given pragma. */
 function moved(m: MatrixLiteral, by: number, pragma: MatrixLiteral['pragma']): MatrixLiteral {
   const copy: MatrixLiteral = {
@@ -137,6 +149,7 @@ function moved(m: MatrixLiteral, by: number, pragma: MatrixLiteral['pragma']): M
     rowSpans: m.rowSpans.map((s) => shift(s, by)),
     pragma,
   };
+  movedListener?.(m, copy);
   return copy;
 }
 
