@@ -11,6 +11,27 @@
 import { setFlagsFromString } from 'node:v8';
 import { runInNewContext } from 'node:vm';
 
+/**
+ * How far V8 lets the heap grow past its live size before the next full collection, in
+ * percent. Left to itself, V8 grows a heap with a high allocation rate by up to 4× its live
+ * size between collections, and the resident memory follows: reading 10,000 one-line
+ * matrices peaked at 455 MB with 143 MB live. At 20 % the same reading peaked at 308 MB
+ * (2 MB Python file: 335 → 273 MB) for about a tenth more collection time; measured on
+ * Node 20 here (npm run limits). V8 reads the flag at every collection, so it can be set
+ * after start, unlike the young generation's size.
+ */
+export const HEAP_GROWING_PERCENT = 20;
+
+/** Applies HEAP_GROWING_PERCENT; false when the engine refuses the flag (then V8's own policy stays). */
+export function boundHeapGrowth(percent = HEAP_GROWING_PERCENT): boolean {
+  try {
+    setFlagsFromString(`--heap-growing-percent=${percent}`);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 /** Quiet time before collecting (ms): longer than a typing pause, shorter than a user notices. */
 export const IDLE_COLLECT_MS = 2000;
 

@@ -61,7 +61,7 @@ import { diagnosticsOf } from '../ide/diagnostics';
 import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
 import { reportMarkdown } from '../ide/report';
-import { IdleCollector } from './idleCollect';
+import { boundHeapGrowth, IdleCollector } from './idleCollect';
 import { OPENING_MIN_CHARS, openingCut, openingDiagnostics, READING_HOVER_NOTE, readingHoverMarkdown, settledEnd, type ReadingProgress } from '../ide/opening';
 import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
 
@@ -175,6 +175,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   const settingsCache = new Map<string, Promise<IdeSettings>>();
   const timers = new Map<string, NodeJS.Timeout>();
   const idle = new IdleCollector();
+  boundHeapGrowth();
   // EIGENLENS_TRACE=1: every stretch of more than 50 ms in which the event loop could not answer a request.
   if (TRACE) {
     let last = performance.now();
@@ -281,6 +282,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     });
     if (token?.isCancellationRequested) return null;
     reports.set(doc.uri, { version: doc.version, settings, report });
+    // The document is read: its opening report (which only answered while it was being read) can go.
+    openings.delete(doc.uri);
     return { report, settings };
   }
 
