@@ -2,7 +2,7 @@
 // while work is pending, and garbage really goes (measured with a FinalizationRegistry, the
 // engine's own report that an object was collected).
 import { describe, expect, it } from 'vitest';
-import { IdleCollector } from '../../server/src/lsp/idleCollect';
+import { HEAP_GROWING_PERCENT, heapGrowingPercentFromEnv, IdleCollector } from '../../server/src/lsp/idleCollect';
 
 const sleep = (ms: number) => new Promise((r) => setTimeout(r, ms));
 
@@ -39,5 +39,14 @@ describe('IdleCollector', () => {
     await sleep(60);
     expect(idle.collections).toBe(0);
     expect(idle.skipped).toBe(1);
+  });
+});
+
+describe('heap growth bound override (EIGENLENS_HEAP_GROWING_PERCENT)', () => {
+  it('takes a whole number in range, "off", and ignores anything else', () => {
+    expect(heapGrowingPercentFromEnv(undefined)).toBe(HEAP_GROWING_PERCENT);
+    expect(heapGrowingPercentFromEnv('50')).toBe(50);
+    expect(heapGrowingPercentFromEnv('off')).toBeNull();
+    for (const bad of ['0', '-5', '12.5', '1001', 'lots', '']) expect(heapGrowingPercentFromEnv(bad)).toBe(HEAP_GROWING_PERCENT);
   });
 });

@@ -22,8 +22,19 @@ import { runInNewContext } from 'node:vm';
  */
 export const HEAP_GROWING_PERCENT = 20;
 
+/**
+ * EIGENLENS_HEAP_GROWING_PERCENT overrides the bound for measurements (a whole number 1–1000);
+ * "off" leaves V8's own policy. Anything else keeps HEAP_GROWING_PERCENT.
+ */
+export function heapGrowingPercentFromEnv(value = process.env.EIGENLENS_HEAP_GROWING_PERCENT): number | null {
+  if (value === 'off') return null;
+  const n = Number(value);
+  return Number.isInteger(n) && n >= 1 && n <= 1000 ? n : HEAP_GROWING_PERCENT;
+}
+
 /** Applies HEAP_GROWING_PERCENT; false when the engine refuses the flag (then V8's own policy stays). */
-export function boundHeapGrowth(percent = HEAP_GROWING_PERCENT): boolean {
+export function boundHeapGrowth(percent = heapGrowingPercentFromEnv()): boolean {
+  if (percent === null) return false;
   try {
     setFlagsFromString(`--heap-growing-percent=${percent}`);
     return true;
