@@ -32,7 +32,7 @@ export function heapGrowingPercentFromEnv(value = process.env.EIGENLENS_HEAP_GRO
   return Number.isInteger(n) && n >= 1 && n <= 1000 ? n : HEAP_GROWING_PERCENT;
 }
 
-/** Applies HEAP_GROWING_PERCENT; false when the engine refuses the flag (then V8's own policy stays). */
+/** Applies the bound (by default HEAP_GROWING_PERCENT or the override); false when it is "off" or the engine refuses the flag (then V8's own policy stays). */
 export function boundHeapGrowth(percent = heapGrowingPercentFromEnv()): boolean {
   if (percent === null) return false;
   try {
