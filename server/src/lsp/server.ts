@@ -61,6 +61,7 @@ import { diagnosticsOf } from '../ide/diagnostics';
 import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
 import { reportMarkdown } from '../ide/report';
+import { getHeapSpaceStatistics } from 'node:v8';
 import { boundHeapGrowth, IdleCollector } from './idleCollect';
 import { OPENING_MIN_CHARS, openingCut, openingDiagnostics, READING_HOVER_NOTE, readingHoverMarkdown, settledEnd, type ReadingProgress } from '../ide/opening';
 import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
@@ -709,6 +710,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       const mb = (x: number) => Math.round((x / 2 ** 20) * 10) / 10;
       return {
         memoryMB: { rss: mb(m.rss), heapUsed: mb(m.heapUsed), heapTotal: mb(m.heapTotal), external: mb(m.external) },
+        heapSpacesMB: Object.fromEntries(getHeapSpaceStatistics().map((x) => [x.space_name, mb(x.physical_space_size)])),
         documents: documents.all().length,
         released: released.size,
         matrixCache: { size: matrixCache.size, hits: matrixCache.hits, misses: matrixCache.misses },

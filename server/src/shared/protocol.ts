@@ -80,6 +80,8 @@ export const StatsRequestMethod = 'eigenlens/stats';
 
 export interface StatsRequestResult {
   memoryMB: { rss: number; heapUsed: number; heapTotal: number; external: number };
+  /** Committed size of each V8 heap space, MB (where the JS heap's resident memory is). */
+  heapSpacesMB?: Record<string, number>;
   documents: number;
   /** Open documents whose analysis was freed (setting documentsKept); they keep their diagnostics. */
   released: number;
