@@ -38,9 +38,12 @@ export const PARSE_CACHE_SIZE = 3;
  * And at most this many characters of text in all: a tree of a file of generated matrices
  * takes about 65 bytes per character of source in tree-sitter's WASM heap (measured: 9 MB for
  * a 138,000-character Python file), and that heap never shrinks, so this bounds it to about
- * 40 MB; the newest tree is always kept.
+ * 16 MB; the newest tree is always kept. With 5,000-line files that is one tree: a document
+ * edited after another pays one full parse (110–140 ms measured here) at its first edit that is not inside a
+ * number (those are read without the parser, entryEdit.ts). At 600,000 characters (three such
+ * trees) ten open files held 14 MB more resident memory (npm run bench, Node 20 here).
  */
-export const PARSE_CACHE_CHARS = 600_000;
+export const PARSE_CACHE_CHARS = 250_000;
 
 /**
  * Reuse pays off when most of the text is unchanged; below this share of the longer text a
