@@ -25,6 +25,7 @@ import type { DiscreteModel, DocumentReport, Finding, MatrixReport, ModelReport 
 import { discreteModelFor } from './discrete';
 import { findingsForMatrix, NOT_YET_PREFIX } from './findings';
 import { lineColumnAt } from './position';
+import { groupedInteger } from './numberText';
 import { analyseModel } from './modelAnalysis';
 
 export { DEFAULT_SETTINGS } from './settings';
@@ -204,7 +205,7 @@ export function analyzeDocument(
       span: { start: 0, end: 0 },
       severity: 'information',
       code: 'file-too-large',
-      message: `eigenlens skipped this file: ${text.length.toLocaleString('en-US')} characters is over the limit of ${settings.maxFileChars.toLocaleString('en-US')} (setting eigenlens.maxFileChars).`,
+      message: `eigenlens skipped this file: ${groupedInteger(text.length)} characters is over the limit of ${groupedInteger(settings.maxFileChars)} (setting eigenlens.maxFileChars).`,
     });
     return { language, matrices: [], models: [], findings };
   }

@@ -56,3 +56,18 @@ export function polynomialGrowth(variable: 't' | 'k', block: number): string {
   const sup: Record<string, string> = { '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
   return `like ${variable}${String(m).split('').map((c) => sup[c]).join('')}`;
 }
+
+/**
+ * A whole number with commas between groups of three digits (12,345). Written out rather than
+ * `toLocaleString('en-US')`, which loads several MB of the runtime's locale data into memory.
+ */
+export function groupedInteger(n: number): string {
+  if (!Number.isSafeInteger(n)) return String(n);
+  const digits = String(Math.abs(n));
+  let out = '';
+  for (let i = 0; i < digits.length; i++) {
+    if (i > 0 && (digits.length - i) % 3 === 0) out += ',';
+    out += digits[i];
+  }
+  return n < 0 ? `-${out}` : out;
+}

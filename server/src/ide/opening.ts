@@ -13,6 +13,7 @@
 import type { DocumentReport } from '../analysis/report';
 import { diagnosticsOf, type PlainDiagnostic } from './diagnostics';
 import { DIAGNOSTIC_SOURCE } from '../shared/protocol';
+import { groupedInteger } from '../analysis/numberText';
 
 /** Documents shorter than this are analysed whole from the first pass. */
 export const OPENING_MIN_CHARS = 60_000;
@@ -59,7 +60,7 @@ export function openingDiagnostics(prefix: DocumentReport, prefixText: string, d
     span: { start: 0, end: 0 },
     severity: 'information',
     code: 'analysis-limit',
-    message: `eigenlens is still analysing this file (${documentLines.toLocaleString('en-US')} lines): the diagnostics so far cover lines 1–${lines}; the rest follow.`,
+    message: `eigenlens is still analysing this file (${groupedInteger(documentLines)} lines): the diagnostics so far cover lines 1–${lines}; the rest follow.`,
     source: DIAGNOSTIC_SOURCE,
     matrixIndex: null,
   });
@@ -80,7 +81,7 @@ export interface ReadingProgress {
 
 /** What a hover says below the lines the opening pass covered, while the file is still being read. */
 export function readingHoverMarkdown(progress: ReadingProgress, documentLines: number): string {
-  const lines = documentLines.toLocaleString('en-US');
+  const lines = groupedInteger(documentLines);
   if (progress.phase === 'waiting') return `**eigenlens** will read this file (${lines} lines) once the other large files opened with it are read. Hover again in a moment.`;
   const what = progress.phase === 'parsing' ? 'parsing' : 'reading its statements';
   return `**eigenlens** is still reading this file (${lines} lines; ${what}, ${Math.round(progress.fraction * 100)} %). Hover again in a moment.`;
