@@ -37,6 +37,7 @@ import {
 import { ClientCommands, DOCUMENT_LANGUAGES, REPORT_SCHEME } from './commandIds';
 import { RestartBudget } from './restartPolicy';
 import { parsePeriod } from './period';
+import { serverNodeArgs } from './serverArgs';
 
 /** JSON-RPC "method not found": the server does not offer a request (yet). */
 const METHOD_NOT_FOUND = -32601;
@@ -84,9 +85,10 @@ export async function deactivate(): Promise<void> {
 
 function createClient(context: vscode.ExtensionContext, channel: vscode.LogOutputChannel): LanguageClient {
   const serverModule = context.asAbsolutePath(path.join('dist', 'server.js'));
+  const nodeArgs = serverNodeArgs(context.extension.packageJSON);
   const serverOptions: ServerOptions = {
-    run: { module: serverModule, transport: TransportKind.ipc },
-    debug: { module: serverModule, transport: TransportKind.ipc, options: { execArgv: ['--nolazy', '--inspect=6019'] } },
+    run: { module: serverModule, transport: TransportKind.ipc, options: { execArgv: nodeArgs } },
+    debug: { module: serverModule, transport: TransportKind.ipc, options: { execArgv: [...nodeArgs, '--nolazy', '--inspect=6019'] } },
   };
   const clientOptions: LanguageClientOptions = {
     documentSelector: DOCUMENT_LANGUAGES.flatMap((language) => [

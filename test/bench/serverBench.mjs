@@ -44,6 +44,12 @@ function cpuSecondsOf(pid) {
   }
 }
 
+/** The node flags the VS Code client starts the server with (client/src/serverArgs.ts reads the same field). */
+export function manifestNodeArgs(root) {
+  const args = JSON.parse(readFileSync(join(root, 'package.json'), 'utf8')).eigenlensServerNodeArgs;
+  return Array.isArray(args) ? args.filter((a) => typeof a === 'string') : [];
+}
+
 class ServerSession {
   constructor(root) {
     this.root = root;
@@ -55,11 +61,13 @@ class ServerSession {
 
   async start() {
     this.t0 = performance.now();
-    // EIGENLENS_BENCH_SERVER_NODE_ARGS passes extra node flags to the server, e.g. "--cpu-prof --cpu-prof-dir=prof".
-    const nodeArgs = (process.env.EIGENLENS_BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean);
+    // The server runs with the node flags the VS Code client gives it (package.json,
+    // "eigenlensServerNodeArgs"); EIGENLENS_BENCH_SERVER_NODE_ARGS adds more after them, e.g.
+    // "--cpu-prof --cpu-prof-dir=prof" (a later flag of the same name wins).
+    const nodeArgs = [...manifestNodeArgs(this.root), ...(process.env.EIGENLENS_BENCH_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean)];
     this.proc = spawn(process.execPath, [...nodeArgs, join(this.root, 'dist', 'server.js'), '--stdio'], { cwd: this.root, stdio: ['pipe', 'pipe', 'pipe'] });
     this.proc.stderr.on('data', (d) => {
-      if (this.stderr.length < 20_000) this.stderr += d;
+      if (this.stderr.length < (process.env.EIGENLENS_BENCH_STDERR ? 5_000_000 : 20_000)) this.stderr += d;
     });
     this.exited = new Promise((resolve) => this.proc.on('exit', (code, signal) => resolve({ code, signal })));
     this.conn = createProtocolConnection(new StreamMessageReader(this.proc.stdout), new StreamMessageWriter(this.proc.stdin));
@@ -298,6 +306,12 @@ export async function memoryRun(root, { log }) {
     mem.serverCpuSeconds = cpuSecondsOf(session.proc.pid);
     // EIGENLENS_BENCH_SMAPS=<file> keeps the server's /proc/<pid>/smaps for a look at where the resident memory is.
     if (process.env.EIGENLENS_BENCH_SMAPS) writeFileSync(process.env.EIGENLENS_BENCH_SMAPS, readFileSync(`/proc/${session.proc.pid}/smaps`, 'utf8'));
+    // EIGENLENS_BENCH_SNAPSHOT=1, with EIGENLENS_BENCH_SERVER_NODE_ARGS=--heapsnapshot-signal=SIGUSR2,
+    // has the server write a heap snapshot into the working directory here.
+    if (process.env.EIGENLENS_BENCH_SNAPSHOT) {
+      process.kill(session.proc.pid, 'SIGUSR2');
+      await new Promise((r) => setTimeout(r, 20_000));
+    }
     // The server's own split: JS heap, memory outside it (tree-sitter's WASM heap), caches.
     mem.serverStats = await session.conn.sendRequest('eigenlens/stats', { collectGarbage: true }).catch(() => null);
     if (mem.serverStats) log(`server memory split: ${JSON.stringify(mem.serverStats)}`);

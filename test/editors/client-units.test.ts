@@ -1,8 +1,11 @@
-// Behaviour of the client's editor-free pieces: the crash-restart budget and the sample
-// period parser behind "Discretize at Period…".
+// Behaviour of the client's editor-free pieces: the crash-restart budget, the sample
+// period parser behind "Discretize at Period…", and the node flags the server starts with.
+import { readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { RestartBudget } from '../../client/src/restartPolicy';
 import { parsePeriod } from '../../client/src/period';
+import { serverNodeArgs } from '../../client/src/serverArgs';
 
 describe('RestartBudget (4 restarts within 3 minutes, then stop)', () => {
   const minute = 60_000;
@@ -52,4 +55,18 @@ describe('parsePeriod', () => {
       if (!parsed.ok) expect(parsed.reason.length).toBeGreaterThan(10);
     },
   );
+});
+
+describe('server node flags (client/src/serverArgs.ts)', () => {
+  const manifest = JSON.parse(readFileSync(join(__dirname, '..', '..', 'package.json'), 'utf8'));
+
+  it('takes the manifest flags the server is started with', () => {
+    expect(serverNodeArgs(manifest)).toEqual(manifest.eigenlensServerNodeArgs);
+    expect(serverNodeArgs(manifest)).toContain('--max-semi-space-size=8');
+  });
+
+  it('ignores a field that is not a list of plain node flags', () => {
+    for (const bad of [undefined, null, 'x', ['--ok', 3], ['--inspect=0.0.0.0:9229 --x'], ['-e', 'code'], [' --a']]) expect(serverNodeArgs({ eigenlensServerNodeArgs: bad })).toEqual([]);
+    expect(serverNodeArgs(null)).toEqual([]);
+  });
 });

@@ -12,6 +12,7 @@ import { readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { createProtocolConnection, StreamMessageReader, StreamMessageWriter } from 'vscode-languageserver-protocol/node';
 import { seededRandom } from '../fuzz/targets.mjs';
+import { manifestNodeArgs } from '../bench/serverBench.mjs';
 
 const TARGET_MS = 250;
 const RSS_LIMIT_MB = 200;
@@ -53,7 +54,7 @@ function memory(pid) {
 const pending = (p) => p.diagnostics.some((d) => d.code === 'analysis-limit' && d.range.start.line === 0 && d.range.end.line === 0 && d.range.end.character === 0 && /time budget|still analysing/.test(d.message));
 
 async function measure(label, text) {
-  const child = spawn(process.execPath, [...(process.env.EIGENLENS_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=dist/prof'] : []), ...(process.env.EIGENLENS_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean), join('dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', process.env.EIGENLENS_TRACE ? 'inherit' : 'pipe'] });
+  const child = spawn(process.execPath, [...manifestNodeArgs('.'), ...(process.env.EIGENLENS_CPU_PROF ? ['--cpu-prof', '--cpu-prof-dir=dist/prof'] : []), ...(process.env.EIGENLENS_SERVER_NODE_ARGS ?? '').split(' ').filter(Boolean), join('dist', 'server.js'), '--stdio'], { stdio: ['pipe', 'pipe', process.env.EIGENLENS_TRACE ? 'inherit' : 'pipe'] });
   const conn = createProtocolConnection(new StreamMessageReader(child.stdout), new StreamMessageWriter(child.stdin));
   const diag = [];
   let onDiag = null;
