@@ -4,7 +4,7 @@
 // generated invented ones (test/bench/generate.mjs) with models (A with B, C, D) and with
 // uncontrollable pairs (Kalman rank test, CHECKS check 20) in the hand-written one below.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { AnalysisCache, analyzeDocument, DEFAULT_SETTINGS, initAnalysis } from '../../server/src/analysis/analyze';
+import { AnalysisCache, analyzeDocument, analyzeDocumentSteps, DEFAULT_SETTINGS, initAnalysis } from '../../server/src/analysis/analyze';
 import type { DocumentReport } from '../../server/src/analysis/report';
 import type { SourceLanguage } from '../../server/src/syntax/types';
 // @ts-expect-error plain JavaScript module without type declarations
@@ -77,9 +77,12 @@ describe('passes that reuse what earlier passes settled', () => {
       const next = analyzeDocument(text, 'python', hurried, { cache, previous });
       for (const [index, report] of waiting(next)) {
         if (!before.has(index)) continue;
-        // The same object, not one built again, with the same findings on it and its model's matrices.
-        expect(report).toBe(before.get(index));
+        // The same report, not one built again, with the same findings on it and its model's
+        // matrices; a copy, so the earlier report (still the one requests read while a pass is
+        // suspended, see analyzeDocumentSteps) keeps its own findings.
+        expect(json({ ...next, matrices: [report] })).toBe(json({ ...next, matrices: [before.get(index)!] }));
         expect(codes(next, index)).toBe(codesBefore.get(index));
+        expect(codes(previous, index)).toBe(codesBefore.get(index));
         checked++;
       }
       previous = next;
@@ -88,6 +91,48 @@ describe('passes that reuse what earlier passes settled', () => {
     // A pass with time finishes them as one unhurried pass would.
     const last = analyzeDocument(text, 'python', unhurried, { cache, previous });
     expect(json(last)).toBe(json(analyzeDocument(text, 'python', unhurried, { cache: new AnalysisCache() })));
+  });
+
+  it('a pass in steps, with other passes run while it is suspended, equals one pass and leaves the earlier report as it was', () => {
+    const { text } = generateSourceFile(64, 'python', { lines: 1500, count: 120 }) as { text: string };
+    const cache = new AnalysisCache();
+    // An earlier, unfinished report of the same text, as requests read it meanwhile.
+    const earlier = analyzeDocument(text, 'python', { ...DEFAULT_SETTINGS, timeBudgetMs: 0 }, { cache });
+    const earlierJson = json(earlier);
+    const steps = analyzeDocumentSteps(text, 'python', unhurried, { cache, previous: earlier }, 1);
+    let suspended = 0;
+    let step = steps.next();
+    while (!step.done) {
+      suspended++;
+      // A hover on some matrix while the pass is suspended: its own pass over the same report.
+      const focus = earlier.matrices[(suspended * 37) % earlier.matrices.length].statementSpan.start;
+      analyzeDocument(text, 'python', { ...DEFAULT_SETTINGS, timeBudgetMs: 0 }, { cache, previous: earlier, focus });
+      step = steps.next();
+    }
+    expect(suspended).toBeGreaterThan(3);
+    expect(json(earlier)).toBe(earlierJson);
+    expect(json(step.value)).toBe(json(analyzeDocument(text, 'python', unhurried, { cache: new AnalysisCache() })));
+  });
+
+  it('a focused-only report has the matrix at the focus and its model, as the whole report has them', () => {
+    const cache = new AnalysisCache();
+    const whole = analyzeDocument(handWritten, 'python', unhurried, { cache: new AnalysisCache() });
+    const at = (name: string) => whole.matrices.find((m) => m.name === name)!;
+    // On an entry of B2: the model of A2 (A2, B2, C2, D2), and nothing else.
+    const part = analyzeDocument(handWritten, 'python', unhurried, { cache, focus: at('B2').span.start + 2, focusOnly: true });
+    expect(part.partial).toBe(true);
+    expect(part.matrices.map((m) => m.name)).toEqual(['A2', 'B2', 'C2', 'D2']);
+    expect(json({ ...part, partial: undefined, findings: [], models: [] })).toBe(json({ ...whole, findings: [], models: [], matrices: whole.matrices.filter((m) => m.modelId === at('A2').modelId) }));
+    expect(JSON.stringify(part.models)).toBe(JSON.stringify(whole.models.filter((m) => m.state === at('A2').index)));
+    // A matrix with no model of others: itself only; outside every statement: nothing.
+    expect(analyzeDocument(handWritten, 'python', unhurried, { cache, focus: at('A3').nameSpan!.start, focusOnly: true }).matrices.map((m) => m.name)).toEqual(['A3']);
+    expect(analyzeDocument(handWritten, 'python', unhurried, { cache, focus: 3, focusOnly: true }).matrices).toEqual([]);
+  });
+
+  it('a pass with no step length runs in one step', () => {
+    const steps = analyzeDocumentSteps(handWritten, 'python', unhurried, { cache: new AnalysisCache() }, 0);
+    const step = steps.next();
+    expect(step.done).toBe(true);
   });
 
   it('a previous report of another text or other settings is not used', () => {

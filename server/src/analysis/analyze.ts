@@ -149,6 +149,12 @@ export interface AnalyzeOptions {
    */
   focus?: number;
   /**
+   * Report only the matrix at `focus` and the other matrices of its model (a request's answer
+   * in a large document: it costs what those cost, not a pass over every matrix). The report
+   * is marked `partial` and is not one a later pass can take over.
+   */
+  focusOnly?: boolean;
+  /**
    * The report of an earlier pass over the same text (a document analysed in slices, a hover
    * between passes): every matrix it settled is taken over as it stands instead of being built
    * again, so a pass costs what is new in it (see PassMemo). Ignored unless it was made from the
@@ -199,6 +205,52 @@ export function analyzeDocument(
   settings: AnalysisSettings,
   options: AnalyzeOptions = {},
 ): DocumentReport {
+  const steps = analyzeDocumentSteps(text, language, settings, options, 0);
+  for (;;) {
+    const step = steps.next();
+    if (step.done) return step.value;
+  }
+}
+
+/**
+ * Own working time of a pass that may be suspended: the time budget counts only the time the
+ * pass itself ran, not the time it was suspended while the server answered requests.
+ */
+class PassClock {
+  private worked = 0;
+  private since = performance.now();
+  constructor(private readonly stepMs: number) {}
+  /** Milliseconds of work so far. */
+  get elapsed(): number {
+    return this.worked + (performance.now() - this.since);
+  }
+  /** The current step has run its length (never, with a step length of 0). */
+  get due(): boolean {
+    return this.stepMs > 0 && performance.now() - this.since >= this.stepMs;
+  }
+  pause(): void {
+    this.worked += performance.now() - this.since;
+  }
+  resume(): void {
+    this.since = performance.now();
+  }
+}
+
+/**
+ * analyzeDocument in steps of about `stepMs` of work (0: one step): the generator yields
+ * between matrices and models once a step has run that long, so that a caller can answer
+ * requests in between and then resume it (or drop it, when the text changed). The report it
+ * returns is the one analyzeDocument would; the time budget counts working time only.
+ * While it is suspended nothing it built is visible: the earlier report stands until it ends.
+ */
+export function* analyzeDocumentSteps(
+  text: string,
+  language: SourceLanguage,
+  settings: AnalysisSettings,
+  options: AnalyzeOptions = {},
+  stepMs = 0,
+): Generator<void, DocumentReport, void> {
+  const clock = new PassClock(stepMs);
   const findings: Finding[] = [];
   if (text.length > settings.maxFileChars) {
     findings.push({
@@ -230,15 +282,25 @@ export function analyzeDocument(
   // by the size caps, so the check between matrices keeps a document within budget plus one matrix.
   // The matrices analysed still need their findings and model analyses after the loop (about a
   // third of a pass over many small models): the loop stops early enough to leave room for them.
-  const loopDeadline = Date.now() + settings.timeBudgetMs * LOOP_SHARE;
-  const checkDeadline = Date.now() + settings.timeBudgetMs * CHECK_SHARE;
+  // In whole milliseconds, as a wall clock would count them: a budget of 0 still lets a pass
+  // analyse what it gets through before the clock ticks (at least the matrix in progress).
+  const budgetFrom = Math.floor(clock.elapsed);
+  const loopBudget = budgetFrom + settings.timeBudgetMs * LOOP_SHARE;
+  const checkBudget = budgetFrom + settings.timeBudgetMs * CHECK_SHARE;
   const notYetNote = notYetMessage();
   let overBudget = 0;
+  const only = options.focusOnly && options.focus !== undefined ? focusedMatrices(file, options.focus, modelOf) : null;
   const matrices: MatrixReport[] = [];
   const built: { report: MatrixReport; core: MatrixCore; lit: MatrixLiteral }[] = [];
   const pending: PassMemo['pending'] = new Array(file.matrices.length);
   for (let index = 0; index < file.matrices.length; index++) {
+    if (clock.due) {
+      clock.pause();
+      yield;
+      clock.resume();
+    }
     if (options.isCancelled?.()) break;
+    if (only && !only.has(index)) continue;
     const lit = file.matrices[index];
     if (lit.pragma?.ignore) continue;
     const kept = reuse?.settled[index];
@@ -248,14 +310,17 @@ export function analyzeDocument(
     }
     const model = modelOf.get(index) ?? null;
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
-    const late = !focused && Date.now() > loopDeadline;
+    const late = !focused && Math.floor(clock.elapsed) > loopBudget;
     const waiting = late ? reuse?.pending[index] : undefined;
     // Still not reached, and the earlier report says so with this budget: take it over, without
     // the findings its model added in that pass (the model is analysed again below).
     if (waiting && waiting.report.skipped.length === 1 && waiting.report.skipped[0] === notYetNote && options.cache?.peek(waiting.report.hash) === undefined) {
-      waiting.report.findings.length = waiting.own;
-      matrices.push(waiting.report);
-      pending[index] = waiting;
+      // A copy: the earlier report is still the one requests read (and another pass may take
+      // it over too) while this pass is suspended.
+      const own = waiting.report.findings.slice(0, waiting.own);
+      const taken = waiting.report instanceof MatrixReportObject ? waiting.report.withFindings(own) : { ...waiting.report, findings: own };
+      matrices.push(taken);
+      pending[index] = { report: taken, own: waiting.own };
       overBudget++;
       continue;
     }
@@ -273,13 +338,26 @@ export function analyzeDocument(
   let deferred = 0;
   for (const { core, lit } of built) {
     if (!core.closedForm || core.closedForm.settled) continue;
+    if (clock.due) {
+      clock.pause();
+      yield;
+      clock.resume();
+    }
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
     if (focused) core.closedForm.get();
     else if (options.deferChecks) deferred++;
-    else if (options.isCancelled?.() || Date.now() > checkDeadline) unchecked++;
+    else if (options.isCancelled?.() || Math.floor(clock.elapsed) > checkBudget) unchecked++;
     else core.closedForm.get();
   }
-  for (const { report, core, lit } of built) if (report.role === 'state') report.findings = cachedFindings(report, core, lit, settings);
+  for (let i = 0; i < built.length; i++) {
+    if ((i & 255) === 255 && clock.due) {
+      clock.pause();
+      yield;
+      clock.resume();
+    }
+    const { report, core, lit } = built[i];
+    if (report.role === 'state') report.findings = cachedFindings(report, core, lit, settings);
+  }
   for (const { report } of built) if (report.skipped.length === 1 && report.skipped[0] === notYetNote) pending[report.index] = { report, own: report.findings.length };
   if (overBudget > 0 || unchecked > 0) {
     const parts = [
@@ -299,10 +377,16 @@ export function analyzeDocument(
   const outcomes = new Map<number, ModelOutcome>();
   let cancelled = false;
   for (const m of grouping.models) {
+    if (clock.due) {
+      clock.pause();
+      yield;
+      clock.resume();
+    }
     if (options.isCancelled?.()) {
       cancelled = true;
       break;
     }
+    if (only && !only.has(m.state)) continue;
     const done = reuse?.models.get(m.state);
     if (done) {
       // Its findings go to the reports rebuilt in this pass (the settled ones have them).
@@ -320,8 +404,28 @@ export function analyzeDocument(
     if (outcome) outcomes.set(m.state, outcome);
   }
   const result: DocumentReport = { language, matrices, models, findings, incomplete: overBudget > 0 || unchecked > 0 || deferred > 0 };
+  if (only) {
+    result.partial = true;
+    return result;
+  }
   if (!cancelled && matrices.length > 0) passMemos.set(result, settledParts(file, passKey, options.cache, grouping, modelOf, byIndex, built, models, outcomes, reuse, pending));
   return result;
+}
+
+/** Indices of the matrix whose statement contains `offset` and of the other matrices of its model. */
+function focusedMatrices(file: ExtractedFile, offset: number, modelOf: Map<number, ModelGroup>): Set<number> {
+  const only = new Set<number>();
+  // The innermost statement, as a hover picks the innermost literal.
+  let at = -1;
+  for (let i = 0; i < file.matrices.length; i++) {
+    const st = file.matrices[i].statementSpan;
+    if (st.start <= offset && offset <= st.end && (at < 0 || st.end - st.start < file.matrices[at].statementSpan.end - file.matrices[at].statementSpan.start)) at = i;
+  }
+  if (at < 0) return only;
+  only.add(at);
+  const model = modelOf.get(at);
+  if (model) for (const role of MODEL_ROLES) if (model[role] !== null && model[role] !== undefined) only.add(model[role] as number);
+  return only;
 }
 
 /** The PassMemo of a finished pass (see there). */
@@ -575,6 +679,10 @@ class MatrixReportObject implements MatrixReport {
   constructor(fields: Omit<MatrixReport, 'transition'>, slot: ClosedFormSlot | null) {
     Object.assign(this, fields);
     this.#slot = slot;
+  }
+  /** The same report with other findings (sharing the closed form). */
+  withFindings(findings: Finding[]): MatrixReportObject {
+    return new MatrixReportObject({ ...this, findings }, this.#slot);
   }
   get transition(): MatrixReport['transition'] {
     return this.#slot?.get() ?? null;

@@ -107,4 +107,6 @@ export interface DocumentReport {
   findings: Finding[];
   /** The time budget ran out: some state matrices were not analysed in this pass (a later pass continues). */
   incomplete?: boolean;
+  /** Only the matrix at the focus and the other matrices of its model are in it (AnalyzeOptions.focusOnly). */
+  partial?: boolean;
 }

@@ -29,7 +29,7 @@ import {
   type CancellationToken,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
-import { abandonExtractions, AnalysisCache, analyzeDocument, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
+import { abandonExtractions, AnalysisCache, analyzeDocument, analyzeDocumentSteps, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
 import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
@@ -97,6 +97,12 @@ export const OPENING_SLICE_MS = 60;
  * (syntax/extract.ts `extractSlice`); requests are answered between slices.
  */
 export const READ_SLICE_MS = 40;
+
+/**
+ * A diagnostics pass is suspended after this much work to answer waiting requests, then
+ * resumed (analysis/analyze.ts `analyzeDocumentSteps`): about what a reading slice takes.
+ */
+export const PASS_STEP_MS = 40;
 /**
  * Event-loop turns a pass gives up before it starts. The JSON-RPC layer moves a message
  * through several immediates (read, queue, handler, write), and a pass started from a timer
@@ -164,6 +170,8 @@ interface ReportAnswer {
   settings: IdeSettings;
   readingUpTo?: number;
   reading?: ReadingProgress;
+  /** The report has only the matrices at the request's focus (AnalyzeOptions.focusOnly). */
+  partial?: boolean;
 }
 
 export function startServer(connection: Connection = createConnection(ProposedFeatures.all)): void {
@@ -174,6 +182,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   /** How far the first reading of each large document has got. */
   const readingProgress = new Map<string, ReadingProgress>();
   const settingsCache = new Map<string, Promise<IdeSettings>>();
+  /** Counts configuration changes: a pass suspended across one is stale. */
+  let configurationEpoch = 0;
   const timers = new Map<string, NodeJS.Timeout>();
   const idle = new IdleCollector();
   boundHeapGrowth();
@@ -273,15 +283,38 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const sliceMs = opts.continuation && doc.getText().length >= OPENING_MIN_CHARS ? CONTINUATION_SLICE_MS : DIAGNOSTIC_SLICE_MS;
     const budget = pass === 'slice' ? sliceMs : pass === 'interactive' ? (unfinishedHere ? 0 : REQUEST_SLICE_MS) : Number.POSITIVE_INFINITY;
     const analysis = { ...settings.analysis, timeBudgetMs: Math.min(settings.analysis.timeBudgetMs, budget) };
-    const report = analyzeDocument(doc.getText(), language, analysis, {
-      cache: matrixCache,
-      isCancelled: () => token?.isCancellationRequested === true,
-      deferChecks: opts.deferChecks,
-      focus: opts.focus,
-      // Passes over the same version take over what earlier ones settled.
-      previous: cached && cached.version === doc.version ? cached.report : undefined,
-    });
+    const focusOnly = pass === 'interactive' && opts.focus !== undefined && doc.getText().length >= OPENING_MIN_CHARS;
+    const epoch = configurationEpoch;
+    const steps = analyzeDocumentSteps(
+      doc.getText(),
+      language,
+      analysis,
+      {
+        cache: matrixCache,
+        isCancelled: () => token?.isCancellationRequested === true,
+        deferChecks: opts.deferChecks,
+        focus: opts.focus,
+        // A request about one place in a large document: that matrix and its model only, not
+        // a pass over thousands of matrices (that is the diagnostics passes' work).
+        focusOnly: focusOnly,
+        // Passes over the same version take over what earlier ones settled.
+        previous: cached && cached.version === doc.version ? cached.report : undefined,
+      },
+      // A diagnostics pass gives the event loop back every PASS_STEP_MS of work (requests
+      // meanwhile answer from the latest report); requests and commands run in one go.
+      pass === 'slice' ? PASS_STEP_MS : 0,
+    );
+    let step = steps.next();
+    while (!step.done) {
+      await yieldToRequests();
+      const now = documents.get(doc.uri);
+      // Edited, closed or reconfigured meanwhile: this pass is stale, a newer one is scheduled.
+      if (!now || now.version !== doc.version || epoch !== configurationEpoch || token?.isCancellationRequested) return null;
+      step = steps.next();
+    }
+    const report = step.value;
     if (token?.isCancellationRequested) return null;
+    if (report.partial) return { report, settings, partial: true };
     reports.set(doc.uri, { version: doc.version, settings, report });
     // The document is read: its opening report (which only answered while it was being read) can go.
     openings.delete(doc.uri);
@@ -549,6 +582,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
 
   connection.onDidChangeConfiguration(
     guarded('configuration', undefined, (change) => {
+      configurationEpoch++;
       settingsCache.clear();
       reports.clear();
       openings.clear();
@@ -652,8 +686,9 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const language = languageOf(doc);
     if (!result || !language) return null;
     // While the document is being read: actions on the settled part only, and none over the whole file.
-    if (result.readingUpTo !== undefined) {
-      if (doc.offsetAt(range.start) >= result.readingUpTo) return [];
+    if (result.readingUpTo !== undefined && doc.offsetAt(range.start) >= result.readingUpTo) return [];
+    // Nor from a report of the matrices at the cursor only: the whole-file actions wait for the passes.
+    if (result.readingUpTo !== undefined || result.partial) {
       only = only.length > 0 ? only : ['quickfix', 'refactor'];
       if (only.some((o) => o === 'source' || o.startsWith('source.'))) return [];
     }
