@@ -294,6 +294,27 @@ describe('code lenses and commands', () => {
     expect(resolved.range).toEqual(lenses[1].range);
   });
 
+  it('right after an edit of a large file, its lenses come from the new text before any pass, and resolve there', async () => {
+    // Invented one-line matrices as above, 2,600 of them (about 80,000 characters: a large
+    // document, whose lenses are unresolved). The edit adds a matrix at the top, so every lens
+    // moves down a line; the lens request arrives within the debounce, before any pass of the
+    // new version has run.
+    const line = (k: number) => `A_${k} = [[-${k}, 0], [0, -${2 * k}]]`;
+    const text = Array.from({ length: 2600 }, (_, i) => line(i + 1)).join('\n') + '\n';
+    expect(text.length).toBeGreaterThan(60_000);
+    const uri = `file:///fixtures/${opened++}/many-large.py`;
+    await client.open(uri, 'python', text);
+    await client.diagnosticsWhere(uri, (p) => !p.diagnostics.some((d) => d.code === 'analysis-limit'), 60_000);
+    await client.change(uri, `${line(9999)}\n${text}`);
+    const lenses = await lensesOf(uri);
+    expect(lenses).toHaveLength(2601);
+    expect(lenses.every((l) => l.command === undefined)).toBe(true);
+    expect(lenses.map((l) => l.range.start.line)).toEqual(Array.from({ length: 2601 }, (_, i) => i));
+    // The lens on the line of A_2 (now line 2) resolves to A_2's verdict: τ = 1/2 s.
+    const resolved = (await client.connection.sendRequest('codeLens/resolve', lenses[2])) as CodeLens;
+    expect(resolved.command?.title).toBe('stable · slowest τ = 500 ms (λ = −2)');
+  });
+
   it('unstable model file lens names the growing mode', async () => {
     const lenses = await checkLenses('hover_wheel.lti');
     expect(lenses[0].command?.title).toBe('⚠ unstable: λ ≈ 10.7 doubles every 64.8 ms');

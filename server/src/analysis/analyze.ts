@@ -18,7 +18,7 @@ import { ClosedFormSlot, ClosedFormStore } from './closedFormSlot';
 import { extract, initParsers } from '../syntax/extract';
 import { onLiteralMoved } from '../syntax/literalMemo';
 import { groupModels } from '../model/group';
-import type { ExtractedFile, MatrixLiteral, SourceLanguage, EntryValue } from '../syntax/types';
+import type { ExtractedFile, MatrixLiteral, SourceLanguage, EntryValue, Span } from '../syntax/types';
 import type { ModelGroup } from '../model/types';
 import type { AnalysisSettings } from './settings';
 import type { DiscreteModel, DocumentReport, Finding, MatrixReport, ModelReport } from './report';
@@ -266,7 +266,7 @@ export function* analyzeDocumentSteps(
   const passKey = passSettingsKey(settings);
   const prior = options.previous ? passMemos.get(options.previous) : undefined;
   const reuse = prior && prior.file === file && prior.settingsKey === passKey && prior.cache === options.cache ? prior : null;
-  const grouping = reuse ? reuse.grouping : groupModels(file, { defaultDomain: settings.defaultDomain, defaultPeriod: settings.defaultPeriod });
+  const grouping = reuse ? reuse.grouping : groupingOf(file, settings);
   findings.push(...grouping.problems);
 
   const modelOf = reuse ? reuse.modelOf : new Map<number, ModelGroup>();
@@ -410,6 +410,35 @@ export function* analyzeDocumentSteps(
   }
   if (!cancelled && matrices.length > 0) passMemos.set(result, settledParts(file, passKey, options.cache, grouping, modelOf, byIndex, built, models, outcomes, reuse, pending));
   return result;
+}
+
+/** Model grouping of an extraction, remembered per extraction object and default domain and period. */
+const groupings = new WeakMap<ExtractedFile, { key: string; grouping: ReturnType<typeof groupModels> }>();
+function groupingOf(file: ExtractedFile, settings: AnalysisSettings): ReturnType<typeof groupModels> {
+  const key = `${settings.defaultDomain}|${settings.defaultPeriod}`;
+  const known = groupings.get(file);
+  if (known && known.key === key) return known.grouping;
+  const grouping = groupModels(file, { defaultDomain: settings.defaultDomain, defaultPeriod: settings.defaultPeriod });
+  groupings.set(file, { key, grouping });
+  return grouping;
+}
+
+/**
+ * Where the state matrices of a text are (index and the name's or literal's span), from its
+ * extraction and model grouping alone, with no analysis: what unresolved lenses need.
+ */
+export function stateMatrixOutline(text: string, language: SourceLanguage, settings: AnalysisSettings): { index: number; span: Span }[] {
+  if (text.length > settings.maxFileChars) return [];
+  const file = extract(text, language, { stateMatrixNames: settings.stateMatrixNames });
+  const grouping = groupingOf(file, settings);
+  const states = new Set(grouping.models.map((m) => m.state));
+  const out: { index: number; span: Span }[] = [];
+  for (let index = 0; index < file.matrices.length; index++) {
+    const lit = file.matrices[index];
+    if (lit.pragma?.ignore || (lit.role !== 'state' && !states.has(index))) continue;
+    out.push({ index, span: lit.nameSpan ?? lit.span });
+  }
+  return out;
 }
 
 /** Indices of the matrix whose statement contains `offset` and of the other matrices of its model. */

@@ -34,6 +34,11 @@ export function verdictLens(report: DocumentReport, matrixIndex: number, precisi
  */
 export const COMPACT_LENSES_ABOVE = 200;
 
+/** A verdict lens whose title codeLens/resolve fills in. */
+export function unresolvedLens(index: number, span: Span): PlainLens {
+  return { span, title: '', command: Commands.showFullAnalysis, args: [index], needsUri: true, unresolved: true };
+}
+
 export function lensesOf(report: DocumentReport, precision: number): PlainLens[] {
   const out: PlainLens[] = [];
   const states = report.matrices.filter((m) => m.role === 'state');
@@ -41,7 +46,7 @@ export function lensesOf(report: DocumentReport, precision: number): PlainLens[]
   for (const matrix of states) {
     const span = matrix.nameSpan ?? matrix.span;
     if (compact) {
-      out.push({ span, title: '', command: Commands.showFullAnalysis, args: [matrix.index], needsUri: true, unresolved: true });
+      out.push(unresolvedLens(matrix.index, span));
       continue;
     }
     out.push({ span, title: lensTitle(matrix, precision), command: Commands.showFullAnalysis, args: [matrix.index], needsUri: true });

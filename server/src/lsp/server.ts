@@ -29,7 +29,7 @@ import {
   type CancellationToken,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
-import { abandonExtractions, AnalysisCache, analyzeDocument, analyzeDocumentSteps, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
+import { abandonExtractions, AnalysisCache, analyzeDocument, analyzeDocumentSteps, stateMatrixOutline, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
 import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
@@ -56,7 +56,7 @@ import { CODE_METHODS, cInitializerText, discreteCodeFor, discreteInsertEdit } f
 import type { DiscretizationMethod } from '../engine/discretize';
 import { DEFAULT_IDE_SETTINGS, settingsFromUser, type IdeSettings } from '../ide/settings';
 import { hoverAt } from '../ide/hover';
-import { lensesOf, verdictLens } from '../ide/lens';
+import { COMPACT_LENSES_ABOVE, lensesOf, unresolvedLens, verdictLens, type PlainLens } from '../ide/lens';
 import { diagnosticsOf } from '../ide/diagnostics';
 import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
@@ -646,10 +646,31 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     }),
   );
 
+  /**
+   * The lenses of a large document that has no report of its version yet (just edited, or just
+   * read), when it has so many state matrices that its lenses are unresolved anyway: from the
+   * extraction alone, rather than a pass over every matrix. Null when the usual way applies.
+   */
+  async function lensesBeforeReport(doc: TextDocument): Promise<PlainLens[] | null> {
+    if (doc.getText().length < OPENING_MIN_CHARS || reports.get(doc.uri)?.version === doc.version) return null;
+    used(doc.uri);
+    await ready;
+    const language = languageOf(doc);
+    if (!language) return null;
+    const settings = await settingsFor(doc.uri);
+    const current = documents.get(doc.uri);
+    if (!current || current.version !== doc.version || mustRead(doc, language, settings)) return null;
+    if (!settings.codeLensEnabled) return [];
+    const states = stateMatrixOutline(doc.getText(), language, settings.analysis);
+    return states.length > COMPACT_LENSES_ABOVE ? states.map((s) => unresolvedLens(s.index, s.span)) : null;
+  }
+
   connection.onCodeLens(
     guarded('codeLens', [], async (params, token) => {
       const doc = documents.get(params.textDocument.uri);
       if (!doc) return [];
+      const outline = await lensesBeforeReport(doc);
+      if (outline) return outline.map((lens) => toLens(doc, lens));
       const result = await reportFor(doc, token, 'interactive');
       if (!result || !result.settings.codeLensEnabled) return [];
       const upTo = result.readingUpTo;
