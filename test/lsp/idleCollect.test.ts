@@ -32,21 +32,13 @@ describe('IdleCollector', () => {
     expect(idle.collections).toBe(0);
   });
 
-  it('only collects, without compacting, when the live heap would take longer to move than its pause bound', async () => {
-    // The bound is tiny here, so any heap is "too large" to compact: the quiet period passes
-    // with the incremental collection alone, and the skipped compaction is counted.
-    const collected: string[] = [];
-    const registry = new FinalizationRegistry<string>((name) => collected.push(name));
-    (() => {
-      registry.register({ big: new Array(100_000).fill(1) }, 'garbage');
-    })();
+  it('skips the collection when the heap would take longer than its pause bound', async () => {
+    // The bound is tiny here, so any heap is "too large": the quiet period passes without a pause.
     const idle = new IdleCollector(20, 0.001);
     idle.touch();
-    await sleep(100);
-    expect(idle.collections).toBe(1);
+    await sleep(60);
+    expect(idle.collections).toBe(0);
     expect(idle.skipped).toBe(1);
-    await sleep(20);
-    expect(collected).toContain('garbage');
   });
 
   it('work during a collection gets a collection of its own afterwards', async () => {
