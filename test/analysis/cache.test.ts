@@ -71,6 +71,10 @@ describe('closed forms built on demand', () => {
     [[-0.735759, 0.551819], [-1.471518, 1.103638]].forEach((row, r) => row.forEach((x, c) => expect(e1[r][c]).toBeCloseTo(x, 5)));
     const e2 = value(a2, 2);
     expect(e2[0][1]).toBeCloseTo(2 * Math.exp(-2), 12);
+    // A rebuild is the first build exactly, its check included (taken over, not run again).
+    const fresh = analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache: new AnalysisCache() });
+    expect(JSON.stringify(a1.transition)).toBe(JSON.stringify(fresh.matrices[0].transition));
+    expect(JSON.stringify(a2.transition)).toBe(JSON.stringify(fresh.matrices[1].transition));
     // A copy of a report does not build anything.
     const before = cache.closedForms.builds;
     const copy = { ...report.matrices[2] };

@@ -111,7 +111,10 @@ export class ClosedFormSlot {
     if (held) return held;
     let value: TransitionClosedForm;
     try {
-      value = transitionClosedForm(this.A, this.spectrum, this.domain, { maxN: this.maxN });
+      // A rebuild repeats the first build exactly, so it keeps that build's check (which the
+      // findings already report) rather than running it again: about a third of a rebuild.
+      const known = this.summary ? { check: this.summary.check, conditioning: this.summary.conditioning } : undefined;
+      value = transitionClosedForm(this.A, this.spectrum, this.domain, { maxN: this.maxN, knownCheck: known });
     } catch (err) {
       this.error = (err as Error).message;
       this.onError(`The closed form could not be built: ${this.error}`);

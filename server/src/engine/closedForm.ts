@@ -59,6 +59,12 @@ import type { ContinuousTerm, DiscreteTerm, Domain, Spectrum, TransitionClosedFo
 export interface ClosedFormOptions {
   /** Largest n accepted (DESIGN.md §3 cap); default 12. */
   maxN?: number;
+  /**
+   * The check of an earlier build from the very same inputs: the build is deterministic, so a
+   * rebuild (a closed form dropped from a bounded store and read again) takes the recorded
+   * check and conditioning instead of evaluating the terms against a reference again.
+   */
+  knownCheck?: { check: TransitionClosedForm['check']; conditioning: number };
 }
 
 export const DEFAULT_CLOSED_FORM_MAX_N = 12;
@@ -117,6 +123,7 @@ export function transitionClosedForm(
     exactCoefficients = false;
   }
   const entries = builder.finish();
+  if (opts.knownCheck) return { variable, entries, exactCoefficients, check: opts.knownCheck.check, conditioning: opts.knownCheck.conditioning };
   const { samples, residual, conditioning, reference } = checkClosedForm(Afloat, entries, domain, spectrum, rational ? (A as Rational[][]) : null);
   return {
     variable,
