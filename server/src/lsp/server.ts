@@ -296,7 +296,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         focus: opts.focus,
         // A request about one place in a large document: that matrix and its model only, not
         // a pass over thousands of matrices (that is the diagnostics passes' work).
-        focusOnly: focusOnly,
+        focusOnly,
         // Passes over the same version take over what earlier ones settled.
         previous: cached && cached.version === doc.version ? cached.report : undefined,
       },
