@@ -282,11 +282,11 @@ export function* analyzeDocumentSteps(
   // by the size caps, so the check between matrices keeps a document within budget plus one matrix.
   // The matrices analysed still need their findings and model analyses after the loop (about a
   // third of a pass over many small models): the loop stops early enough to leave room for them.
-  // In whole milliseconds, as a wall clock would count them: a budget of 0 still lets a pass
-  // analyse what it gets through before the clock ticks (at least the matrix in progress).
+  // In whole milliseconds of work, as the wall clock these replaced counted: a budget of 0 still
+  // lets a pass analyse what it gets through before the millisecond turns over.
   const budgetFrom = Math.floor(clock.elapsed);
-  const loopBudget = budgetFrom + settings.timeBudgetMs * LOOP_SHARE;
-  const checkBudget = budgetFrom + settings.timeBudgetMs * CHECK_SHARE;
+  const loopUntil = budgetFrom + settings.timeBudgetMs * LOOP_SHARE;
+  const checkUntil = budgetFrom + settings.timeBudgetMs * CHECK_SHARE;
   const notYetNote = notYetMessage();
   let overBudget = 0;
   const only = options.focusOnly && options.focus !== undefined ? focusedMatrices(file, options.focus, modelOf) : null;
@@ -310,7 +310,7 @@ export function* analyzeDocumentSteps(
     }
     const model = modelOf.get(index) ?? null;
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
-    const late = !focused && Math.floor(clock.elapsed) > loopBudget;
+    const late = !focused && Math.floor(clock.elapsed) > loopUntil;
     const waiting = late ? reuse?.pending[index] : undefined;
     // Still not reached, and the earlier report says so with this budget: take it over, without
     // the findings its model added in that pass (the model is analysed again below).
@@ -346,7 +346,7 @@ export function* analyzeDocumentSteps(
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
     if (focused) core.closedForm.get();
     else if (options.deferChecks) deferred++;
-    else if (options.isCancelled?.() || Math.floor(clock.elapsed) > checkBudget) unchecked++;
+    else if (options.isCancelled?.() || Math.floor(clock.elapsed) > checkUntil) unchecked++;
     else core.closedForm.get();
   }
   for (let i = 0; i < built.length; i++) {
