@@ -128,11 +128,18 @@ async function measure(label, text) {
   // Quiet for a while, as an editor is between edits: the server's idle collection runs.
   await new Promise((r) => setTimeout(r, 3000));
   const mem = memory(child.pid);
+  // The server's own account of where the memory is (JS heap spaces, external, WASM is in rss only).
+  const stats = await conn.sendRequest('eigenlens/stats', {}).catch(() => null);
+  // EIGENLENS_LIMITS_SNAPSHOT=1 with EIGENLENS_SERVER_NODE_ARGS=--heapsnapshot-signal=SIGUSR2: a heap snapshot here (profiling).
+  if (process.env.EIGENLENS_LIMITS_SNAPSHOT) {
+    child.kill('SIGUSR2');
+    await new Promise((r) => setTimeout(r, 20_000));
+  }
   await conn.sendRequest('shutdown').catch(() => {});
   await conn.sendNotification('exit').catch(() => {});
   await new Promise((r) => (child.exitCode !== null ? r() : child.on('exit', r)));
   conn.dispose();
-  return { label, chars: text.length, diagnosticsMs, completeMs, during, after, editDiagnosticsMs, rssMb: mem.rss, peakRssMb: mem.peak, diagnosticsCount: diag.at(-1)?.diagnostics.length ?? null };
+  return { label, chars: text.length, diagnosticsMs, completeMs, during, after, editDiagnosticsMs, rssMb: mem.rss, peakRssMb: mem.peak, serverMemoryMB: stats?.memoryMB ?? null, heapSpacesMB: stats?.heapSpacesMB ?? null, diagnosticsCount: diag.at(-1)?.diagnostics.length ?? null };
 }
 
 const cases = [

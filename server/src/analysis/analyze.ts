@@ -12,6 +12,7 @@ import { Rational } from '../engine/rational';
 import type { Domain, Spectrum, Stability } from '../engine/types';
 import { exactSpectrum } from '../engine/spectrumExact';
 import { floatSpectrum } from '../engine/spectrumFloat';
+import { eigenvalueSteps } from '../engine/eigenFloat';
 import { stabilityOf } from '../engine/stability';
 import { modesOf } from '../engine/modes';
 import { ClosedFormSlot, ClosedFormStore } from './closedFormSlot';
@@ -37,6 +38,8 @@ export const MAX_ENTRY_MAGNITUDE = 1e150;
 const LOOP_SHARE = 0.6;
 /** The share of the budget by which the closed-form checks stop. */
 const CHECK_SHARE = 0.85;
+/** State matrices from this size on have their float eigenvalues computed in steps in a stepped pass (about 10 ms of work at n = 48). */
+export const STEPPED_SPECTRUM_N = 48;
 
 const BUDGET_SKIP = NOT_YET_PREFIX;
 
@@ -154,6 +157,12 @@ export interface AnalyzeOptions {
    * is marked `partial` and is not one a later pass can take over.
    */
   focusOnly?: boolean;
+  /**
+   * In a pass run in one go (step length 0): leave a state matrix whose float spectrum would be
+   * computed in steps (STEPPED_SPECTRUM_N and up) for a stepped pass, even at the focus, rather
+   * than hold the thread for it (a request's answer then says a later pass analyses it).
+   */
+  deferLargeSpectra?: boolean;
   /**
    * The report of an earlier pass over the same text (a document analysed in slices, a hover
    * between passes): every matrix it settled is taken over as it stands instead of being built
@@ -310,7 +319,9 @@ export function* analyzeDocumentSteps(
     }
     const model = modelOf.get(index) ?? null;
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
-    const late = !focused && Math.floor(clock.elapsed) > loopUntil;
+    const lateByClock = !focused && Math.floor(clock.elapsed) > loopUntil;
+    const toStep = (stepMs > 0 || options.deferLargeSpectra) && !lateByClock ? spectrumToStep(file, lit, index, model, settings, options.cache) : null;
+    const late = lateByClock || (toStep !== null && stepMs === 0);
     const waiting = late ? reuse?.pending[index] : undefined;
     // Still not reached, and the earlier report says so with this budget: take it over, without
     // the findings its model added in that pass (the model is analysed again below).
@@ -323,6 +334,22 @@ export function* analyzeDocumentSteps(
       pending[index] = { report: taken, own: waiting.own };
       overBudget++;
       continue;
+    }
+    if (toStep && !late) {
+      const steps = eigenvalueSteps(toStep);
+      try {
+        while (!steps.next().done) {
+          if (clock.due) {
+            clock.pause();
+            yield;
+            clock.resume();
+          }
+          if (options.isCancelled?.()) break;
+        }
+      } catch {
+        // analyseStateMatrix meets the same failure and reports it.
+      }
+      if (options.isCancelled?.()) break;
     }
     const { report, core } = reportForMatrix(text, file, lit, index, model, settings, options.cache, late);
     // Only matrices actually left unanalysed count (cached ones are always filled in), so a pass
@@ -600,22 +627,17 @@ function literalKey(lit: MatrixLiteral): string {
   return key;
 }
 
-function reportForMatrix(
-  text: string,
+/** What a matrix's analysis depends on besides its entries, and the cache key of all of it. */
+function matrixIdentity(
   file: ExtractedFile,
   lit: MatrixLiteral,
   index: number,
   model: ModelGroup | null,
   settings: AnalysisSettings,
-  cache: AnalysisCache | undefined,
-  overBudget = false,
-): { report: MatrixReport; core: MatrixCore } {
-  const { values, entrySpans } = literalArrays(lit);
+): { isState: boolean; domain: Domain; period: number | null; hash: string } {
   const isState = lit.role === 'state' || (model !== null && model.state === index);
   const domain: Domain = model?.domain ?? lit.pragma?.domain ?? settings.defaultDomain;
   const period = model?.period ?? periodOf(lit.pragma?.period) ?? settings.defaultPeriod;
-  const { line, column } = lineColumnAt(text, lit.span.start);
-
   const context = [
     isState ? 'S' : 'O',
     domain,
@@ -632,6 +654,40 @@ function reportForMatrix(
     hash = createHash('sha1').update(`${literalKey(lit)}|${context}`).digest('hex').slice(0, 16);
     literalHashes.set(lit, { context, hash });
   }
+  return { isState, domain, period, hash };
+}
+
+/**
+ * The float entries whose eigenvalues analyseStateMatrix will compute in floating point, for a
+ * state matrix of at least STEPPED_SPECTRUM_N rows not yet analysed; otherwise null. A pass in
+ * steps computes them first in steps of its own (eigenvalueSteps), so that one large matrix
+ * does not hold the thread for the few hundred milliseconds its spectrum takes.
+ */
+function spectrumToStep(file: ExtractedFile, lit: MatrixLiteral, index: number, model: ModelGroup | null, settings: AnalysisSettings, cache: AnalysisCache | undefined): number[][] | null {
+  const n = lit.nRows;
+  if (n < STEPPED_SPECTRUM_N || lit.nCols !== n || n > settings.numericMaxN) return null;
+  const { isState, hash } = matrixIdentity(file, lit, index, model, settings);
+  if (!isState || cache?.peek(hash) !== undefined) return null;
+  const { values } = literalArrays(lit);
+  if (values.some((r) => r.length !== n || r.some((v) => v === null))) return null;
+  if (lit.exact && n <= settings.exactMaxN) return null;
+  const floatA = values.map((r) => r.map((v) => (v!.kind === 'exact' ? v!.value.toNumber() : v!.value)));
+  return floatA.some((r) => r.some((x) => !Number.isFinite(x) || Math.abs(x) > MAX_ENTRY_MAGNITUDE)) ? null : floatA;
+}
+
+function reportForMatrix(
+  text: string,
+  file: ExtractedFile,
+  lit: MatrixLiteral,
+  index: number,
+  model: ModelGroup | null,
+  settings: AnalysisSettings,
+  cache: AnalysisCache | undefined,
+  overBudget = false,
+): { report: MatrixReport; core: MatrixCore } {
+  const { values, entrySpans } = literalArrays(lit);
+  const { isState, domain, period, hash } = matrixIdentity(file, lit, index, model, settings);
+  const { line, column } = lineColumnAt(text, lit.span.start);
 
   let core = cache?.get(hash);
   if (!core && overBudget && isState) {

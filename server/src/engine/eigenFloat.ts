@@ -24,6 +24,7 @@
 import { EigenvalueDecomposition } from 'ml-matrix';
 import { balance } from './balance';
 import { UNIT_ROUNDOFF } from './tolerance';
+import { runToEnd } from './steps';
 
 export interface Complex {
   re: number;
@@ -64,9 +65,43 @@ function flushNegligible(A: number[][]): number[][] {
   return A.map((row) => row.map((x) => (Math.abs(x) < floor ? 0 : x)));
 }
 
+/**
+ * The eigenvalues last computed in steps (eigenvalueSteps), with a copy of their matrix: a
+ * later eigenFloat of the same entries takes them instead of computing them again.
+ */
+let stepped: { entries: Float64Array; n: number; values: Complex[] } | null = null;
+
+function sameEntries(A: number[][], entries: Float64Array, n: number): boolean {
+  if (A.length !== n) return false;
+  for (let i = 0; i < n; i++) {
+    const row = A[i];
+    for (let j = 0; j < n; j++) if (!Object.is(row[j], entries[i * n + j])) return false;
+  }
+  return true;
+}
+
+/**
+ * eigenFloat's eigenvalues in steps: the generator yields every few Hessenberg columns and QR
+ * sweeps (about a millisecond of work for n = 200), so a caller with other work to do can stop
+ * in between; the eigenvalues it returns are also what the next eigenFloat of the same entries
+ * returns (without computing them again). For large matrices in a pass that must not hold the
+ * thread for long (analyze.ts).
+ */
+export function* eigenvalueSteps(A: number[][]): Generator<void, Complex[], void> {
+  const n = assertFiniteSquare(A, 'eigenvalues');
+  if (n === 0) return [];
+  const { balanced } = balance(flushNegligible(A));
+  const values = yield* hessenbergQrSteps(balanced);
+  const entries = new Float64Array(n * n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) entries[i * n + j] = A[i][j];
+  stepped = { entries, n, values };
+  return values.map((v) => ({ ...v }));
+}
+
 export function eigenFloat(A: number[][], opts: { vectors?: boolean } = {}): FloatEigen {
   const n = assertFiniteSquare(A, 'eigenvalues');
   if (n === 0) return { values: [], vectors: opts.vectors ? [] : null };
+  if (!opts.vectors && stepped && sameEntries(A, stepped.entries, stepped.n)) return { values: stepped.values.map((v) => ({ ...v })), vectors: null };
   const { balanced, scaling } = balance(flushNegligible(A));
   if (!opts.vectors) return { values: hessenbergQrEigenvalues(balanced), vectors: null };
   const evd = new EigenvalueDecomposition(balanced);
@@ -95,9 +130,10 @@ export function eigenFloat(A: number[][], opts: { vectors?: boolean } = {}): Flo
  * Householder reduction to upper Hessenberg form in place (EISPACK orthes, transformations
  * not kept). After step m, column m−1 is zero below the subdiagonal; similarity is kept.
  */
-function reduceToHessenberg(H: Float64Array, n: number): void {
+function* reduceToHessenberg(H: Float64Array, n: number): Generator<void, void, void> {
   const ort = new Float64Array(n);
   for (let m = 1; m <= n - 2; m++) {
+    if ((m & 7) === 0) yield;
     let scale = 0;
     for (let i = m; i < n; i++) scale += Math.abs(H[i * n + m - 1]);
     if (scale === 0) continue;
@@ -132,10 +168,15 @@ function reduceToHessenberg(H: Float64Array, n: number): void {
 
 /** Eigenvalues of a real matrix by Hessenberg reduction and Francis double-shift QR (hqr). */
 export function hessenbergQrEigenvalues(A: number[][]): Complex[] {
+  return runToEnd(hessenbergQrSteps(A));
+}
+
+/** hessenbergQrEigenvalues in steps: yields every 8 Hessenberg columns and every 8 QR sweeps. */
+function* hessenbergQrSteps(A: number[][]): Generator<void, Complex[], void> {
   const nn = A.length;
   const H = new Float64Array(nn * nn);
   for (let i = 0; i < nn; i++) for (let j = 0; j < nn; j++) H[i * nn + j] = A[i][j];
-  reduceToHessenberg(H, nn);
+  yield* reduceToHessenberg(H, nn);
   const at = (i: number, j: number) => H[i * nn + j];
   const d = new Float64Array(nn);
   const e = new Float64Array(nn);
@@ -222,6 +263,7 @@ export function hessenbergQrEigenvalues(A: number[][]): Complex[] {
       }
       iter++;
       totalIterations++;
+      if ((totalIterations & 7) === 0) yield;
       // Look for two consecutive small subdiagonal entries.
       let m = n - 2;
       while (m >= l) {

@@ -297,12 +297,14 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         // A request about one place in a large document: that matrix and its model only, not
         // a pass over thousands of matrices (that is the diagnostics passes' work).
         focusOnly,
+        // A request's answer never waits for a large matrix's spectrum: the stepped passes compute it.
+        deferLargeSpectra: pass === 'interactive',
         // Passes over the same version take over what earlier ones settled.
         previous: cached && cached.version === doc.version ? cached.report : undefined,
       },
-      // A diagnostics pass gives the event loop back every PASS_STEP_MS of work (requests
-      // meanwhile answer from the latest report); requests and commands run in one go.
-      pass === 'slice' ? PASS_STEP_MS : 0,
+      // A diagnostics pass or a command gives the event loop back every PASS_STEP_MS of work
+      // (requests meanwhile answer from the latest report); requests run in one go.
+      pass === 'interactive' ? 0 : PASS_STEP_MS,
     );
     let step = steps.next();
     while (!step.done) {

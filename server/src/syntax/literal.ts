@@ -16,6 +16,7 @@
  */
 import { evaluateEntry } from './evaluate';
 import { isPragmaComment, mergePragmas, parsePragma } from './pragma';
+import { runToEnd } from '../engine/steps';
 import type { NameRole } from './roles';
 import type { EntryValue, MatrixEntry, MatrixLiteral, Pragma, Problem, SourceLanguage, Span } from './types';
 
@@ -81,6 +82,13 @@ export interface LiteralInput {
   groupKeyOverride?: string;
 }
 
+/**
+ * A literal at least this long is read in steps: its builders yield after every row, so a
+ * stepped extraction (extract.ts) can stop inside one 200×200 literal rather than only
+ * between statements. Smaller literals are read in one go (no step overhead).
+ */
+export const STEPPED_LITERAL_CHARS = 20_000;
+
 export function buildMatrix(
   text: string,
   lang: SourceLanguage,
@@ -88,7 +96,19 @@ export function buildMatrix(
   input: LiteralInput,
   problems: Problem[],
 ): MatrixLiteral | null {
+  return runToEnd(buildMatrixSteps(text, lang, scope, input, problems));
+}
+
+/** `buildMatrix` in steps: yields the offset read up to after each row of a long literal (STEPPED_LITERAL_CHARS). */
+export function* buildMatrixSteps(
+  text: string,
+  lang: SourceLanguage,
+  scope: ReadonlyMap<string, EntryValue>,
+  input: LiteralInput,
+  problems: Problem[],
+): Generator<number, MatrixLiteral | null, void> {
   const { top, pragma, nameRole } = input;
+  const stepped = input.span.end - input.span.start >= STEPPED_LITERAL_CHARS;
   if (pragma?.ignore) return null;
   const role = pragma?.role ?? nameRole?.role ?? 'unknown';
   const strict = role !== 'unknown' || pragma !== null || input.arrayCall;
@@ -197,6 +217,7 @@ export function buildMatrix(
       }
     }
     rows.push(out);
+    if (stepped && row.length > 0) yield row[row.length - 1].span.end;
   }
   // Hidden characters anywhere in the literal (also between tokens, where the parsers skip them).
   for (const hit of text.slice(input.span.start, input.span.end).matchAll(HIDDEN_CHARACTER)) {

@@ -29,7 +29,8 @@
  * and nothing in it reads or changes the constants). Walking those nodes through the WASM
  * boundary was most of an extraction once the literals were reused.
  */
-import { buildMatrix, type LiteralInput, type LiteralNode } from './literal';
+import { buildMatrixSteps, type LiteralInput, type LiteralNode } from './literal';
+import { runToEnd, stepsOrValue } from '../engine/steps';
 import type { EntryValue, MatrixLiteral, Problem, SourceLanguage, Span } from './types';
 
 /** What to build, with the top list made on demand (converting it is the work being saved). */
@@ -37,8 +38,11 @@ export interface MemoLiteralInput extends Omit<LiteralInput, 'top'> {
   topSpan: Span;
   /** The literal's syntax subtree contains an error (then it is always rebuilt). */
   topHasError: boolean;
-  top: () => LiteralNode;
+  /** Converts the top list; a long literal's conversion yields offsets read so far (see buildMatrixSteps). */
+  top: () => LiteralNode | Generator<number, LiteralNode, void>;
 }
+
+
 
 interface MemoEntry {
   /** Constants read while building, with what they were (undefined: not defined). */
@@ -195,10 +199,20 @@ export class LiteralMemo {
 
   /** `buildMatrix` with reuse; pushes the same problems and returns the same matrix as `buildMatrix` would. */
   build(text: string, lang: SourceLanguage, scope: ReadonlyMap<string, EntryValue>, input: MemoLiteralInput, problems: Problem[]): MatrixLiteral | null {
+    return runToEnd(this.buildSteps(text, lang, scope, input, problems));
+  }
+
+  /**
+   * `build` in steps (long literals yield after each row, see buildMatrixSteps). Other
+   * extractions may use the memo between steps; the entry found at the start is then only
+   * replaced if it is still the one under its key.
+   */
+  *buildSteps(text: string, lang: SourceLanguage, scope: ReadonlyMap<string, EntryValue>, input: MemoLiteralInput, problems: Problem[]): Generator<number, MatrixLiteral | null, void> {
     const { top, topSpan, topHasError, ...rest } = input;
+    const topList = () => stepsOrValue(top());
     if (topHasError) {
       this.stats.unmemoised++;
-      return buildMatrix(text, lang, scope, { ...rest, top: top() }, problems);
+      return yield* buildMatrixSteps(text, lang, scope, { ...rest, top: yield* topList() }, problems);
     }
     const base = input.span.start;
     const pragma = input.pragma;
@@ -235,10 +249,11 @@ export class LiteralMemo {
     this.stats.misses++;
     const tracked = new ReadTrackingScope(scope);
     const local: Problem[] = [];
-    const matrix = buildMatrix(text, lang, tracked, { ...rest, top: top() }, local);
+    const matrix = yield* buildMatrixSteps(text, lang, tracked, { ...rest, top: yield* topList() }, local);
     problems.push(...local);
     if (!tracked.wholeScopeRead) {
-      if (found) this.forget(key, found);
+      const current = this.entries.get(key);
+      if (current) this.forget(key, current);
       const entry: MemoEntry = {
         reads: [...tracked.reads],
         matrix,
@@ -275,6 +290,8 @@ export class LiteralMemo {
   }
 
   private forget(key: string, e: MemoEntry): void {
+    // An entry found before a stepped build may have been evicted meanwhile.
+    if (this.entries.get(key) !== e) return;
     this.entries.delete(key);
     this.chars -= e.size;
   }

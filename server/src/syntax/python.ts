@@ -11,10 +11,10 @@
  * are never matrices because they are separate node kinds in the tree.
  */
 import type { Node, Tree } from 'web-tree-sitter';
-import { buildMatrix, PragmaAttacher, type LiteralNode } from './literal';
+import { buildMatrixSteps, PragmaAttacher, STEPPED_LITERAL_CHARS, type LiteralNode } from './literal';
 import { evaluateEntry } from './evaluate';
 import type { LiteralMemo } from './literalMemo';
-import { runToEnd } from './steps';
+import { runToEnd, stepsOrValue } from '../engine/steps';
 import { roleFromName } from './roles';
 import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
 
@@ -51,6 +51,22 @@ function namedKids(n: Node): Node[] {
 function toLiteralNode(n: Node, depth = 0): LiteralNode {
   if (n.type === 'list' || n.type === 'tuple') return { span: spanOf(n), items: depth >= 2 ? [] : namedKids(n).map((c) => toLiteralNode(c, depth + 1)) };
   return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(n.type), syntaxError: n.type === 'ERROR' || n.hasError };
+}
+
+/** The top list converted row by row, yielding the offset reached after each (long literals, see STEPPED_LITERAL_CHARS). */
+function* topLiteralSteps(n: Node): Generator<number, LiteralNode, void> {
+  if (n.type !== 'list' && n.type !== 'tuple') return toLiteralNode(n);
+  const items: LiteralNode[] = [];
+  for (const c of namedKids(n)) {
+    items.push(toLiteralNode(c, 1));
+    yield c.endIndex;
+  }
+  return { span: spanOf(n), items };
+}
+
+/** The top list as the builders take it: converted in steps when the literal is long. */
+function topOf(n: Node): LiteralNode | Generator<number, LiteralNode, void> {
+  return n.endIndex - n.startIndex >= STEPPED_LITERAL_CHARS ? topLiteralSteps(n) : toLiteralNode(n);
 }
 
 /** The list inside `np.array([...], dtype=float)`, or the list itself. */
@@ -99,7 +115,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
     else for (const c of namedKids(target)) forget(c);
   };
 
-  const addMatrix = (
+  const addMatrix = function* (
     statement: Node,
     name: string,
     qualifiedName: string,
@@ -107,7 +123,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
     literal: { top: Node; arrayCall: boolean },
     whole: Node,
     groupKeyOverride?: string,
-  ) => {
+  ): Generator<number, void, void> {
     const pragma = attacher.attach(statement.startIndex, scope);
     const fields = {
       name,
@@ -122,17 +138,17 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
     };
     const top = literal.top;
     const m = memo
-      ? memo.build(text, 'python', scope, { ...fields, topSpan: spanOf(top), topHasError: top.hasError, top: () => toLiteralNode(top) }, problems)
-      : buildMatrix(text, 'python', scope, { ...fields, top: toLiteralNode(top) }, problems);
+      ? yield* memo.buildSteps(text, 'python', scope, { ...fields, topSpan: spanOf(top), topHasError: top.hasError, top: () => topOf(top) }, problems)
+      : yield* buildMatrixSteps(text, 'python', scope, { ...fields, top: yield* stepsOrValue(topOf(top)) }, problems);
     if (m) matrices.push(m);
   };
 
-  const handleAssignment = (a: Node, statement: Node) => {
+  const handleAssignment = function* (a: Node, statement: Node): Generator<number, void, void> {
     const left = a.childForFieldName('left');
     const right = a.childForFieldName('right');
     if (!left || !right) return;
     if (right.type === 'assignment') {
-      handleAssignment(right, statement);
+      yield* handleAssignment(right, statement);
       forget(left);
       return;
     }
@@ -146,7 +162,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
     const literal = literalOf(right);
     if (literal) {
       scope.delete(qualifiedName);
-      addMatrix(statement, nameNode.text, qualifiedName, spanOf(nameNode), literal, right);
+      yield* addMatrix(statement, nameNode.text, qualifiedName, spanOf(nameNode), literal, right);
       return;
     }
     if (right.type === 'dictionary') {
@@ -159,7 +175,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
         const content = namedKids(key).find((k) => k.type === 'string_content');
         const lit = literalOf(value);
         if (!content || !lit || !roleFromName(content.text, extraStatePatterns)) continue;
-        addMatrix(statement, content.text, `${qualifiedName}[${key.text}]`, spanOf(content), lit, value, nameNode.text);
+        yield* addMatrix(statement, content.text, `${qualifiedName}[${key.text}]`, spanOf(content), lit, value, nameNode.text);
       }
       return;
     }
@@ -178,7 +194,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
   // `effects` counts assignments seen, so that a top-level statement whose walk found none can be
   // remembered as inert and skipped unvisited next time (see literalMemo.ts).
   let effects = 0;
-  const walkFrom = (start: Node) => {
+  const walkFrom = function* (start: Node): Generator<number, void, void> {
     const stack: Node[] = [start];
     while (stack.length > 0) {
       const node = stack.pop()!;
@@ -186,7 +202,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
         for (const c of namedKids(node)) {
           if (c.type === 'assignment') {
             effects++;
-            handleAssignment(c, node);
+            yield* handleAssignment(c, node);
           } else if (c.type === 'augmented_assignment') {
             effects++;
             const target = c.childForFieldName('left');
@@ -213,7 +229,7 @@ export function* pythonSteps(text: string, tree: Tree, extraStatePatterns: RegEx
       continue;
     }
     const before = effects;
-    walkFrom(statement);
+    yield* walkFrom(statement);
     if (key !== null && effects === before) inert!.add(key);
     yield statement.endIndex;
   }

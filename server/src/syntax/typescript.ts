@@ -11,9 +11,9 @@
  */
 import type { Node, Tree } from 'web-tree-sitter';
 import { evaluateEntry } from './evaluate';
-import { buildMatrix, PragmaAttacher, type LiteralInput, type LiteralNode } from './literal';
+import { buildMatrixSteps, PragmaAttacher, STEPPED_LITERAL_CHARS, type LiteralInput, type LiteralNode } from './literal';
 import type { LiteralMemo } from './literalMemo';
-import { runToEnd } from './steps';
+import { runToEnd, stepsOrValue } from '../engine/steps';
 import { roleFromName } from './roles';
 import type { Constant, EntryValue, ExtractedFile, MatrixLiteral, Problem, Span } from './types';
 
@@ -67,6 +67,23 @@ function toLiteralNode(n: Node, depth = 0): LiteralNode {
   return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(u.type), syntaxError: n.type === 'ERROR' || n.hasError };
 }
 
+/** The top array converted row by row, yielding the offset reached after each (long literals, see STEPPED_LITERAL_CHARS). */
+function* topLiteralSteps(n: Node): Generator<number, LiteralNode, void> {
+  const u = unwrap(n);
+  if (u.type !== 'array') return toLiteralNode(n);
+  const items: LiteralNode[] = [];
+  for (const c of namedKids(u)) {
+    items.push(toLiteralNode(c, 1));
+    yield c.endIndex;
+  }
+  return { span: spanOf(n), items };
+}
+
+/** The top array as the builders take it: converted in steps when the literal is long. */
+function topOf(n: Node): LiteralNode | Generator<number, LiteralNode, void> {
+  return n.endIndex - n.startIndex >= STEPPED_LITERAL_CHARS ? topLiteralSteps(n) : toLiteralNode(n);
+}
+
 function literalOf(value: Node): { top: Node; arrayCall: boolean } | null {
   const v = unwrap(value);
   if (v.type === 'array') return { top: v, arrayCall: false };
@@ -118,12 +135,13 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
   );
 
   /** buildMatrix, through the memo when there is one (the top list is then converted only on a miss). */
-  const build = (top: Node, fields: Omit<LiteralInput, 'top'>): MatrixLiteral | null =>
-    memo
-      ? memo.build(text, 'typescript', scope, { ...fields, topSpan: spanOf(top), topHasError: top.hasError, top: () => toLiteralNode(top) }, problems)
-      : buildMatrix(text, 'typescript', scope, { ...fields, top: toLiteralNode(top) }, problems);
+  const build = function* (top: Node, fields: Omit<LiteralInput, 'top'>): Generator<number, MatrixLiteral | null, void> {
+    return memo
+      ? yield* memo.buildSteps(text, 'typescript', scope, { ...fields, topSpan: spanOf(top), topHasError: top.hasError, top: () => topOf(top) }, problems)
+      : yield* buildMatrixSteps(text, 'typescript', scope, { ...fields, top: yield* stepsOrValue(topOf(top)) }, problems);
+  };
 
-  const addMatrix = (
+  const addMatrix = function* (
     statement: Node,
     name: string,
     qualifiedName: string,
@@ -131,9 +149,9 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
     literal: { top: Node; arrayCall: boolean },
     whole: Node,
     groupKeyOverride?: string,
-  ) => {
+  ): Generator<number, void, void> {
     const pragma = attacher.attach(statement.startIndex, scope);
-    const m = build(literal.top, {
+    const m = yield* build(literal.top, {
       name,
       qualifiedName,
       nameSpan,
@@ -148,7 +166,7 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
   };
 
   /** A binding `target = value` found in a declaration, field or assignment. */
-  const bind = (statement: Node, target: Node, nameNode: Node, value: Node | null) => {
+  const bind = function* (statement: Node, target: Node, nameNode: Node, value: Node | null): Generator<number, void, void> {
     const qualifiedName = target.text;
     if (!value) {
       scope.delete(qualifiedName);
@@ -157,7 +175,7 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
     const literal = literalOf(value);
     if (literal) {
       scope.delete(qualifiedName);
-      addMatrix(statement, nameNode.text, qualifiedName, spanOf(nameNode), literal, unwrap(value));
+      yield* addMatrix(statement, nameNode.text, qualifiedName, spanOf(nameNode), literal, unwrap(value));
       return;
     }
     const v = unwrap(value);
@@ -172,7 +190,7 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
         if (!prop || !val || !lit || !roleFromName(prop.name, extraStatePatterns)) continue;
         const pm = { top: lit.top, arrayCall: lit.arrayCall };
         const pragma = attacher.attach(pair.startIndex, scope);
-        const m = build(pm.top, {
+        const m = yield* build(pm.top, {
           name: prop.name,
           qualifiedName: `${qualifiedName}.${prop.name}`,
           nameSpan: prop.span,
@@ -198,20 +216,20 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
     scope.delete(qualifiedName);
   };
 
-  const handleDeclaration = (decl: Node, statement: Node) => {
+  const handleDeclaration = function* (decl: Node, statement: Node): Generator<number, void, void> {
     for (const d of namedKids(decl)) {
       if (d.type !== 'variable_declarator') continue;
       const name = d.childForFieldName('name');
       if (!name) continue;
       if (name.type !== 'identifier') continue; // destructuring patterns bind nothing we track
-      bind(statement, name, name, d.childForFieldName('value'));
+      yield* bind(statement, name, name, d.childForFieldName('value'));
     }
   };
 
   // `effects` counts declarations and assignments seen, so that a top-level statement whose walk
   // found none can be remembered as inert and skipped unvisited next time (see literalMemo.ts).
   let effects = 0;
-  const walkFrom = (start: Node) => {
+  const walkFrom = function* (start: Node): Generator<number, void, void> {
     const stack: Array<{ node: Node; statement: Node | null }> = [{ node: start, statement: null }];
     while (stack.length > 0) {
       const { node, statement } = stack.pop()!;
@@ -220,12 +238,12 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
         case 'lexical_declaration':
         case 'variable_declaration':
           effects++;
-          handleDeclaration(node, outer);
+          yield* handleDeclaration(node, outer);
           continue;
         case 'public_field_definition': {
           effects++;
           const name = node.childForFieldName('name');
-          if (name && name.type === 'property_identifier') bind(node, name, name, node.childForFieldName('value'));
+          if (name && name.type === 'property_identifier') yield* bind(node, name, name, node.childForFieldName('value'));
           continue;
         }
         case 'expression_statement': {
@@ -236,7 +254,7 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
             const right = e.childForFieldName('right');
             if (left && (left.type === 'identifier' || left.type === 'member_expression')) {
               const nameNode = left.type === 'member_expression' ? left.childForFieldName('property') : left;
-              if (nameNode) bind(node, left, nameNode, right);
+              if (nameNode) yield* bind(node, left, nameNode, right);
             }
           } else if (e && e.type === 'augmented_assignment_expression') {
             effects++;
@@ -263,7 +281,7 @@ export function* typeScriptSteps(text: string, tree: Tree, extraStatePatterns: R
       continue;
     }
     const before = effects;
-    walkFrom(statement);
+    yield* walkFrom(statement);
     if (key !== null && effects === before) inert!.add(key);
     yield statement.endIndex;
   }
