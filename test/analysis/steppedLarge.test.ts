@@ -10,7 +10,7 @@
  * Matrices: A Review", 2006, §4.5), which checks the stepped path on its own.
  */
 import { beforeAll, describe, expect, it } from 'vitest';
-import { AnalysisCache, analyzeDocument, analyzeDocumentSteps, DEFAULT_SETTINGS, initAnalysis, STEPPED_SPECTRUM_N } from '../../server/src/analysis/analyze';
+import { AnalysisCache, analyzeDocument, analyzeDocumentSteps, DEFAULT_SETTINGS, DEFERRED_SPECTRUM_N, initAnalysis, STEPPED_SPECTRUM_N } from '../../server/src/analysis/analyze';
 import type { DocumentReport } from '../../server/src/analysis/report';
 import { eigenFloat, eigenvalueSteps, hessenbergQrEigenvalues } from '../../server/src/engine/eigenFloat';
 import { clearExtractCaches, extract, extractSlice } from '../../server/src/syntax/extract';
@@ -112,8 +112,8 @@ describe('a pass in steps over one large matrix', () => {
     expect(reportJson(r.value)).toBe(reportJson(oneGo));
   });
 
-  it('a pass in one go that defers large spectra leaves the matrix for later, even at the focus; a stepped pass then analyses it', () => {
-    const text = source(randomMatrix(64, 10), 'python');
+  it(`a pass in one go that defers large spectra leaves the matrix (n = ${DEFERRED_SPECTRUM_N}) for later, even at the focus; a stepped pass then analyses it`, () => {
+    const text = source(randomMatrix(DEFERRED_SPECTRUM_N, 10), 'python');
     const cache = new AnalysisCache();
     const focus = text.indexOf('A =') + 1;
     const deferred = analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache, focus, deferLargeSpectra: true });
@@ -126,8 +126,8 @@ describe('a pass in steps over one large matrix', () => {
     expect(r.value.matrices[0].spectrum?.eigenvalues.length).toBeGreaterThan(0);
     // Once analysed (cached), a deferring pass has it too.
     expect(analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache, focus, deferLargeSpectra: true }).matrices[0].spectrum).not.toBeNull();
-    // Small matrices are never deferred.
-    const small = analyzeDocument('# invented\nA = [[0, 1], [-2, -3]]\n', 'python', DEFAULT_SETTINGS, { cache, deferLargeSpectra: true });
-    expect(small.matrices[0].spectrum).not.toBeNull();
+    // Smaller matrices are not deferred.
+    const smaller = analyzeDocument(source(randomMatrix(DEFERRED_SPECTRUM_N - 1, 11), 'python'), 'python', DEFAULT_SETTINGS, { cache, deferLargeSpectra: true });
+    expect(smaller.matrices[0].spectrum).not.toBeNull();
   });
 });

@@ -40,6 +40,11 @@ const LOOP_SHARE = 0.6;
 const CHECK_SHARE = 0.85;
 /** State matrices from this size on have their float eigenvalues computed in steps in a stepped pass (about 10 ms of work at n = 48). */
 export const STEPPED_SPECTRUM_N = 48;
+/**
+ * From this size on a pass in one go with deferLargeSpectra leaves the spectrum to the stepped
+ * passes (about 60 ms of work at n = 120, cold, and growing as n³); smaller ones it computes.
+ */
+export const DEFERRED_SPECTRUM_N = 120;
 
 const BUDGET_SKIP = NOT_YET_PREFIX;
 
@@ -158,9 +163,9 @@ export interface AnalyzeOptions {
    */
   focusOnly?: boolean;
   /**
-   * In a pass run in one go (step length 0): leave a state matrix whose float spectrum would be
-   * computed in steps (STEPPED_SPECTRUM_N and up) for a stepped pass, even at the focus, rather
-   * than hold the thread for it (a request's answer then says a later pass analyses it).
+   * In a pass run in one go (step length 0): leave a state matrix whose float spectrum takes
+   * long (DEFERRED_SPECTRUM_N and up) for a stepped pass, even at the focus, rather than hold
+   * the thread for it (a request's answer then says a later pass analyses it).
    */
   deferLargeSpectra?: boolean;
   /**
@@ -320,7 +325,7 @@ export function* analyzeDocumentSteps(
     const model = modelOf.get(index) ?? null;
     const focused = options.focus !== undefined && lit.statementSpan.start <= options.focus && options.focus <= lit.statementSpan.end;
     const lateByClock = !focused && Math.floor(clock.elapsed) > loopUntil;
-    const toStep = (stepMs > 0 || options.deferLargeSpectra) && !lateByClock ? spectrumToStep(file, lit, index, model, settings, options.cache) : null;
+    const toStep = (stepMs > 0 || options.deferLargeSpectra) && !lateByClock ? spectrumToStep(file, lit, index, model, settings, options.cache, stepMs > 0 ? STEPPED_SPECTRUM_N : DEFERRED_SPECTRUM_N) : null;
     const late = lateByClock || (toStep !== null && stepMs === 0);
     const waiting = late ? reuse?.pending[index] : undefined;
     // Still not reached, and the earlier report says so with this budget: take it over, without
@@ -663,9 +668,9 @@ function matrixIdentity(
  * steps computes them first in steps of its own (eigenvalueSteps), so that one large matrix
  * does not hold the thread for the few hundred milliseconds its spectrum takes.
  */
-function spectrumToStep(file: ExtractedFile, lit: MatrixLiteral, index: number, model: ModelGroup | null, settings: AnalysisSettings, cache: AnalysisCache | undefined): number[][] | null {
+function spectrumToStep(file: ExtractedFile, lit: MatrixLiteral, index: number, model: ModelGroup | null, settings: AnalysisSettings, cache: AnalysisCache | undefined, minN: number): number[][] | null {
   const n = lit.nRows;
-  if (n < STEPPED_SPECTRUM_N || lit.nCols !== n || n > settings.numericMaxN) return null;
+  if (n < minN || lit.nCols !== n || n > settings.numericMaxN) return null;
   const { isState, hash } = matrixIdentity(file, lit, index, model, settings);
   if (!isState || cache?.peek(hash) !== undefined) return null;
   const { values } = literalArrays(lit);
