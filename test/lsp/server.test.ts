@@ -292,6 +292,20 @@ describe('code lenses and commands', () => {
     expect(resolved.command?.title).toBe('stable · slowest τ = 500 ms (λ = −2)');
     expect(resolved.command?.command).toBe('eigenlens.showFullAnalysis');
     expect(resolved.range).toEqual(lenses[1].range);
+    // The data is a short key, not the URI (10,000 of these go out for a large file), and the
+    // same answer comes again for the same report.
+    expect(JSON.stringify(lenses[1].data)).not.toContain('many.py');
+    expect(JSON.stringify(lenses[1]).length).toBeLessThan(100);
+    expect(await lensesOf(uri)).toEqual(lenses);
+    // Once the document is closed its lenses resolve to nothing, also after another document opens.
+    await client.close(uri);
+    const other = `file:///fixtures/${opened++}/many-other.py`;
+    await client.open(other, 'python', text);
+    await client.diagnostics(other, 1);
+    const stale = (await client.connection.sendRequest('codeLens/resolve', lenses[1])) as CodeLens;
+    expect(stale.command).toBeUndefined();
+    const fresh = (await client.connection.sendRequest('codeLens/resolve', (await lensesOf(other))[1])) as CodeLens;
+    expect(fresh.command?.title).toBe('stable · slowest τ = 500 ms (λ = −2)');
   });
 
   it('right after an edit of a large file, its lenses come from the new text before any pass, and resolve there', async () => {

@@ -48,9 +48,24 @@ export function toHover(doc: TextDocument, h: HoverResult): Hover {
   return { contents: { kind: MarkupKind.Markdown, value: h.markdown }, range: toRange(doc, h.span) };
 }
 
-export function toLens(doc: TextDocument, lens: PlainLens): CodeLens {
+/**
+ * What an unresolved lens carries for codeLens/resolve: [document key, version, matrix index].
+ * The key is a small number the server maps to the document's URI (LensDocumentKeys): a
+ * 10,000-matrix file sends 10,000 of these, and the URI in each was half the answer's size.
+ */
+export type LensData = [number, number, number];
+
+export function lensData(x: unknown): { key: number; version: number; matrixIndex: number } | null {
+  if (!Array.isArray(x) || x.length !== 3 || !x.every((v) => Number.isInteger(v))) return null;
+  return { key: x[0] as number, version: x[1] as number, matrixIndex: x[2] as number };
+}
+
+export function toLens(doc: TextDocument, lens: PlainLens, docKey = 0): CodeLens {
   const args = lens.needsUri ? [doc.uri, ...lens.args] : lens.args;
-  if (lens.unresolved) return { range: toRange(doc, lens.span), data: { uri: doc.uri, version: doc.version, matrixIndex: lens.args[0] } };
+  if (lens.unresolved) {
+    const data: LensData = [docKey, doc.version, lens.args[0] as number];
+    return { range: toRange(doc, lens.span), data };
+  }
   return { range: toRange(doc, lens.span), command: { title: lens.title, command: lens.command, arguments: args } };
 }
 

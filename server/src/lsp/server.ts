@@ -64,7 +64,7 @@ import { reportMarkdown } from '../ide/report';
 import { getHeapSpaceStatistics } from 'node:v8';
 import { boundHeapGrowth, IdleCollector } from './idleCollect';
 import { OPENING_MIN_CHARS, openingCut, openingDiagnostics, READING_HOVER_NOTE, readingHoverMarkdown, settledEnd, type ReadingProgress } from '../ide/opening';
-import { toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
+import { lensData, toCodeAction, toDiagnostic, toHover, toLens, toSpan, toWorkspaceEdit } from './convert';
 
 /** Diagnostics wait this long after the last keystroke (common practice for linters: 100–300 ms). */
 export const DIAGNOSTIC_DEBOUNCE_MS = 150;
@@ -628,6 +628,9 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       unfinished.delete(e.document.uri);
       if (timers.size === 0) idle.touch();
       settingsCache.delete(e.document.uri);
+      const lensKey = lensKeys.get(e.document.uri);
+      lensKeys.delete(e.document.uri);
+      if (lensKey !== undefined) lensUris.delete(lensKey);
       void connection.sendDiagnostics({ uri: e.document.uri, diagnostics: [] });
     }),
   );
@@ -667,29 +670,56 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     return states.length > COMPACT_LENSES_ABOVE ? states.map((s) => unresolvedLens(s.index, s.span)) : null;
   }
 
+  /** Small numbers standing for document URIs in unresolved lenses (see LensData). */
+  const lensKeys = new Map<string, number>();
+  const lensUris = new Map<number, string>();
+  // Never reused: a lens of a closed document cannot resolve against another one.
+  let nextLensKey = 1;
+  const lensKeyOf = (uri: string): number => {
+    let key = lensKeys.get(uri);
+    if (key === undefined) {
+      key = nextLensKey++;
+      lensKeys.set(uri, key);
+      lensUris.set(key, uri);
+    }
+    return key;
+  };
+  /**
+   * The LSP lenses last sent for a report whose lenses are all unresolved (more than
+   * COMPACT_LENSES_ABOVE state matrices): they depend only on the report's spans and the
+   * document version, so repeated codeLens requests over the same report send them again
+   * rather than build 10,000 of them each time.
+   */
+  const unresolvedLensCache = new WeakMap<DocumentReport, { version: number; upTo: number | undefined; lenses: CodeLens[] }>();
+
   connection.onCodeLens(
     guarded('codeLens', [], async (params, token) => {
       const doc = documents.get(params.textDocument.uri);
       if (!doc) return [];
+      const key = lensKeyOf(doc.uri);
       const outline = await lensesBeforeReport(doc);
-      if (outline) return outline.map((lens) => toLens(doc, lens));
+      if (outline) return outline.map((lens) => toLens(doc, lens, key));
       const result = await reportFor(doc, token, 'interactive');
       if (!result || !result.settings.codeLensEnabled) return [];
       const upTo = result.readingUpTo;
-      return lensesOf(result.report, result.settings.analysis.precision)
-        .filter((lens) => upTo === undefined || lens.span.end <= upTo)
-        .map((lens) => toLens(doc, lens));
+      const known = unresolvedLensCache.get(result.report);
+      if (known && known.version === doc.version && known.upTo === upTo) return known.lenses;
+      const plain = lensesOf(result.report, result.settings.analysis.precision).filter((lens) => upTo === undefined || lens.span.end <= upTo);
+      const lenses = plain.map((lens) => toLens(doc, lens, key));
+      if (plain.length > COMPACT_LENSES_ABOVE && plain.every((lens) => lens.unresolved)) unresolvedLensCache.set(result.report, { version: doc.version, upTo, lenses });
+      return lenses;
     }),
   );
 
   connection.onCodeLensResolve(
     guarded('codeLensResolve', null as unknown as CodeLens, async (lens: CodeLens) => {
-      const data = lens.data as { uri?: unknown; matrixIndex?: unknown } | undefined;
-      const doc = typeof data?.uri === 'string' ? documents.get(data.uri) : undefined;
-      if (!doc || typeof data?.matrixIndex !== 'number') return lens;
+      const data = lensData(lens.data);
+      const uri = data ? lensUris.get(data.key) : undefined;
+      const doc = uri !== undefined ? documents.get(uri) : undefined;
+      if (!doc || !data) return lens;
       const result = await reportFor(doc, undefined, 'interactive', { focus: doc.offsetAt(lens.range.start) });
       const plain = result ? verdictLens(result.report, data.matrixIndex, result.settings.analysis.precision) : null;
-      if (plain) return { ...toLens(doc, plain), range: lens.range };
+      if (plain) return { ...toLens(doc, plain, data.key), range: lens.range };
       return { ...lens, command: { title: result?.readingUpTo !== undefined ? 'eigenlens: reading…' : 'eigenlens: the document changed', command: '' } };
     }),
   );
