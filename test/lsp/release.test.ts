@@ -81,3 +81,34 @@ describe('documentsKept', () => {
     expect(answer2).toContain('λ = −5');
   });
 });
+
+describe('after edits', () => {
+  it('only the current version of a kept document stays cached: the earlier analysis of a changed matrix goes', async () => {
+    const own = await startClient();
+    try {
+      const uri = 'file:///release/edited.py';
+      // Companion matrices as above: s² + 3s + 2, then s² + 7s + 12.
+      const v1 = 'import numpy as np\nA = np.array([[0, 1], [-2, -3]])\n';
+      const v2 = v1.replace('-2, -3', '-12, -7');
+      await own.open(uri, 'python', v1);
+      await own.diagnostics(uri, 1);
+      await own.change(uri, v2);
+      await own.diagnostics(uri, 2);
+      const until = Date.now() + 5000;
+      let s = (await own.connection.sendRequest('eigenlens/stats', {})) as StatsRequestResult;
+      while (s.matrixCache.size !== 1 && Date.now() < until) {
+        await sleep(20);
+        s = (await own.connection.sendRequest('eigenlens/stats', {})) as StatsRequestResult;
+      }
+      expect(s.matrixCache.size).toBe(1);
+      expect(s.released).toBe(0);
+      // The kept analysis is the current one.
+      const h = (await own.connection.sendRequest('textDocument/hover', { textDocument: { uri }, position: positionAt(v2, v2.indexOf('A =')) })) as Hover | null;
+      const text = h ? (h.contents as MarkupContent).value : '';
+      expect(text).toContain('λ = −3');
+      expect(text).toContain('λ = −4');
+    } finally {
+      await own.shutdown();
+    }
+  });
+});

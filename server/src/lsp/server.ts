@@ -385,6 +385,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   /** When each open document was last opened, edited or asked about (a counter, not a time). */
   const lastUsed = new Map<string, number>();
   let useCount = 0;
+  /** A document was opened, changed or closed since releaseUnused last trimmed the caches. */
+  let versionsChanged = false;
   /** Open documents whose analysis was released (see releaseUnused); their diagnostics stay as published. */
   const released = new Set<string>();
 
@@ -410,10 +412,13 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     if (timers.size > 0 || unfinished.size > 0) return;
     const open = documents.all();
     const keep = Math.min(...(await Promise.all(open.map((d) => settingsFor(d.uri)))).map((s) => s.documentsKept), Number.POSITIVE_INFINITY);
-    if (timers.size > 0 || unfinished.size > 0 || open.length <= keep) return;
+    if (timers.size > 0 || unfinished.size > 0) return;
     const byUse = [...open].sort((a, b) => (lastUsed.get(b.uri) ?? 0) - (lastUsed.get(a.uri) ?? 0));
-    const newlyReleased = byUse.slice(keep).filter((d) => !released.has(d.uri) && reports.has(d.uri));
-    if (newlyReleased.length === 0) return;
+    const newlyReleased = open.length <= keep ? [] : byUse.slice(keep).filter((d) => !released.has(d.uri) && reports.has(d.uri));
+    // Also after edits: what only earlier versions used (their extractions and the analyses of
+    // matrices since changed) goes, as a 10,000-matrix file otherwise holds two versions' worth.
+    if (newlyReleased.length === 0 && !versionsChanged) return;
+    versionsChanged = false;
     for (const d of newlyReleased) {
       released.add(d.uri);
       reports.delete(d.uri);
@@ -429,7 +434,9 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       for (const m of reports.get(d.uri)?.report.matrices ?? []) hashes.add(m.hash);
     }
     matrixCache.retain(hashes);
-    retainExtractionsOf(texts);
+    // Statements known to be inert are kept unless a document was released: the next edit of a
+    // kept document skips them (reading 10,000 statements again took 400 ms).
+    retainExtractionsOf(texts, { forgetInert: newlyReleased.length > 0 });
     if (TRACE) process.stderr.write(`released the analyses of ${newlyReleased.length} documents; kept ${texts.length}\n`);
   }
 
@@ -605,6 +612,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   });
   documents.onDidChangeContent((e) => {
     if (TRACE) changedAt.set(e.document.uri, performance.now());
+    versionsChanged = true;
     if (justOpened.delete(e.document.uri)) return;
     lastUsed.set(e.document.uri, ++useCount);
     released.delete(e.document.uri);
@@ -612,6 +620,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   });
   documents.onDidClose(
     guarded('close', undefined, (e) => {
+      versionsChanged = true;
       const timer = timers.get(e.document.uri);
       if (timer) clearTimeout(timer);
       timers.delete(e.document.uri);

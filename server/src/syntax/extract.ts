@@ -55,13 +55,13 @@ export function clearExtractCaches(): void {
  * dropped here is parsed and read again when next extracted. Unfinished sliced extractions are
  * left alone (their owners decide).
  */
-export function retainExtractionsOf(texts: readonly string[]): void {
+export function retainExtractionsOf(texts: readonly string[], opts: { forgetInert?: boolean } = {}): void {
   const keep = new Set(texts);
   for (let i = extracted.length - 1; i >= 0; i--) if (!keep.has(extracted[i].text)) extracted.splice(i, 1);
   parseCache.retainTexts(keep);
   const literals = new Set<MatrixLiteral>();
   for (const e of extracted) for (const m of e.file.matrices) literals.add(m);
-  literalMemo.retainMatrices(literals);
+  literalMemo.retainMatrices(literals, opts.forgetInert !== false);
 }
 
 /** How many parses were served unchanged, incrementally or from scratch since start. */

@@ -277,12 +277,13 @@ export class LiteralMemo {
 
   /**
    * Keeps only the entries whose matrix is one of `matrices` (those of the texts still held),
-   * and forgets the inert statements: the rest belonged to documents whose analysis was
-   * released. Results do not change; the next extraction of a released text builds again.
+   * and forgets the inert statements unless told not to: the rest belonged to documents whose
+   * analysis was released, or to their earlier versions. Results do not change; the next
+   * extraction of a released text builds again.
    */
-  retainMatrices(matrices: ReadonlySet<MatrixLiteral>): void {
+  retainMatrices(matrices: ReadonlySet<MatrixLiteral>, forgetInert = true): void {
     for (const [key, e] of [...this.entries]) if (e.matrix === null || !matrices.has(e.matrix)) this.forget(key, e);
-    this.inert.clear();
+    if (forgetInert) this.inert.clear();
   }
 
   get size(): number {
