@@ -6,6 +6,7 @@
 import type { DocumentReport, Finding } from '../analysis/report';
 import type { Severity, Span } from '../syntax/types';
 import { DIAGNOSTIC_SOURCE } from '../shared/protocol';
+import { groupedInteger } from '../analysis/numberText';
 
 export interface PlainDiagnostic {
   span: Span;
@@ -43,4 +44,32 @@ export function diagnosticsOf(report: DocumentReport): PlainDiagnostic[] {
 function matrixIndexAt(report: DocumentReport, span: Span): number | null {
   const m = report.matrices.find((mat) => span.start >= mat.statementSpan.start && span.end <= mat.statementSpan.end);
   return m ? m.index : null;
+}
+
+const SEVERITY_RANK: Record<Severity, number> = { error: 0, warning: 1, information: 2, hint: 3 };
+
+/**
+ * At most `max` diagnostics (setting eigenlens.maxDiagnostics): a file of 10,000 matrices has
+ * thousands of findings, and publishing them all costs the editor and the server more than
+ * they are worth (a 7,500-diagnostic list was about 2.5 MB of JSON, sent after every pass).
+ * Kept first: the notes about the document as a whole (no matrix: time budget, file limits);
+ * then by severity, errors first; within a severity, in document order. One more
+ * information diagnostic at the top of the file says how many were left out; hovers and the
+ * full analysis still show every matrix's findings. The result is in document order.
+ */
+export function capDiagnostics(list: PlainDiagnostic[], max: number): PlainDiagnostic[] {
+  if (list.length <= max) return list;
+  const keep = Math.max(0, max - 1);
+  const order = list.map((d, i) => ({ d, i })).sort((a, b) => Number(a.d.matrixIndex !== null) - Number(b.d.matrixIndex !== null) || SEVERITY_RANK[a.d.severity] - SEVERITY_RANK[b.d.severity] || a.i - b.i);
+  const kept = order.slice(0, keep).sort((a, b) => a.i - b.i).map((x) => x.d);
+  const left = list.length - keep;
+  const note: PlainDiagnostic = {
+    span: { start: 0, end: 0 },
+    severity: 'information',
+    code: 'diagnostics-limit',
+    message: `eigenlens shows ${groupedInteger(keep)} of ${groupedInteger(list.length)} findings in this file (setting eigenlens.maxDiagnostics): notes on the whole file first, then errors, warnings and notes in file order. ${groupedInteger(left)} are left out; a matrix's hover and its full analysis show all of its findings.`,
+    source: DIAGNOSTIC_SOURCE,
+    matrixIndex: null,
+  };
+  return [note, ...kept];
 }

@@ -13,7 +13,12 @@ export interface IdeSettings {
   codePrecision: number;
   /** Open documents whose analysis stays in memory, the most recently used; the others keep their diagnostics only. */
   documentsKept: number;
+  /** Diagnostics published per document at most (see capDiagnostics). */
+  maxDiagnostics: number;
 }
+
+/** A thousand: more than anyone reads in one file, and about 350 KB of JSON per publish. */
+export const DEFAULT_MAX_DIAGNOSTICS = 1000;
 
 /** Three: a document and the two beside it in a split editor; more open files cost memory (see README, Performance). */
 export const DEFAULT_DOCUMENTS_KEPT = 3;
@@ -21,7 +26,7 @@ export const DEFAULT_DOCUMENTS_KEPT = 3;
 /** 17 significant digits always round-trip a double (IEEE 754-2008, §5.12.2), so that is the default for generated code. */
 export const DEFAULT_CODE_PRECISION = 17;
 
-export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true, codePrecision: DEFAULT_CODE_PRECISION, documentsKept: DEFAULT_DOCUMENTS_KEPT };
+export const DEFAULT_IDE_SETTINGS: IdeSettings = { analysis: DEFAULT_SETTINGS, codeLensEnabled: true, codePrecision: DEFAULT_CODE_PRECISION, documentsKept: DEFAULT_DOCUMENTS_KEPT, maxDiagnostics: DEFAULT_MAX_DIAGNOSTICS };
 
 const DISCRETIZE_METHODS = ['zoh', 'tustin', 'euler', 'backward-euler', 'foh'] as const;
 
@@ -83,7 +88,8 @@ export function settingsFromUser(raw: unknown): IdeSettings {
   else if (typeof flat === 'boolean') codeLensEnabled = flat;
   const codePrecision = integerIn(user.codePrecision, 2, 17) ?? DEFAULT_CODE_PRECISION;
   const documentsKept = integerIn(user.documentsKept, 1, 1000) ?? DEFAULT_DOCUMENTS_KEPT;
-  return { analysis, codeLensEnabled, codePrecision, documentsKept };
+  const maxDiagnostics = integerIn(user.maxDiagnostics, 10, 100_000) ?? DEFAULT_MAX_DIAGNOSTICS;
+  return { analysis, codeLensEnabled, codePrecision, documentsKept, maxDiagnostics };
 }
 
 function isValidRegex(source: string): boolean {

@@ -57,7 +57,7 @@ import type { DiscretizationMethod } from '../engine/discretize';
 import { DEFAULT_IDE_SETTINGS, settingsFromUser, type IdeSettings } from '../ide/settings';
 import { hoverAt } from '../ide/hover';
 import { COMPACT_LENSES_ABOVE, lensesOf, unresolvedLens, verdictLens, type PlainLens } from '../ide/lens';
-import { diagnosticsOf } from '../ide/diagnostics';
+import { capDiagnostics, diagnosticsOf } from '../ide/diagnostics';
 import { ACTION_KINDS, codeActionsAt } from '../ide/actions';
 import { domainEdit } from '../ide/pragmaEdit';
 import { reportMarkdown } from '../ide/report';
@@ -473,7 +473,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const report = analyzeDocument(prefix, language, { ...settings.analysis, timeBudgetMs: budget }, { cache: matrixCache });
     openings.set(doc.uri, { version: doc.version, settings, report, prefix, settledEnd: settledEnd(report) });
     const T2 = performance.now();
-    const diagnostics = openingDiagnostics(report, prefix, doc.lineCount).map((d) => toDiagnostic(doc, d));
+    const diagnostics = capDiagnostics(openingDiagnostics(report, prefix, doc.lineCount), settings.maxDiagnostics).map((d) => toDiagnostic(doc, d));
     await connection.sendDiagnostics({ uri: doc.uri, version: doc.version, diagnostics });
     if (TRACE) process.stderr.write(`@${performance.now().toFixed(0)} opening ${doc.uri}: parsers ready after ${(T1 - T0).toFixed(1)} ms, ${cut} characters analysed in ${(T2 - T1).toFixed(1)} ms, ${diagnostics.length} diagnostics sent\n`);
     return true;
@@ -526,7 +526,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       return;
     }
     lastPublished.set(uri, performance.now());
-    const diagnostics: Diagnostic[] = diagnosticsOf(result.report).map((d) => toDiagnostic(doc, d));
+    const diagnostics: Diagnostic[] = capDiagnostics(diagnosticsOf(result.report), result.settings.maxDiagnostics).map((d) => toDiagnostic(doc, d));
     const T2 = performance.now();
     await connection.sendDiagnostics({ uri, version: doc.version, diagnostics });
     // EIGENLENS_TRACE=1: one line per diagnostics pass on stderr (for profiling; see DEVELOPERS.md).

@@ -21,6 +21,8 @@ export const SettingKeys = {
   codePrecision: 'codePrecision',
   /** How many open documents keep their analysis in memory (the most recently used). */
   documentsKept: 'documentsKept',
+  /** Diagnostics published per document at most; one more says how many were left out. */
+  maxDiagnostics: 'maxDiagnostics',
 } as const;
 
 /** The settings as the client sends them (`workspace/configuration` for section `eigenlens`). */
@@ -35,6 +37,7 @@ export interface EigenlensUserSettings {
   discretizeMethod?: 'zoh' | 'tustin' | 'euler' | 'backward-euler' | 'foh' | null;
   codePrecision?: number;
   documentsKept?: number;
+  maxDiagnostics?: number;
 }
 
 /**
