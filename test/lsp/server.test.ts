@@ -344,6 +344,24 @@ describe('code lenses and commands', () => {
     expect((edit.edits[0] as { newText: string }).newText).toBe('# eigenlens: discrete\n');
   });
 
+  it('a 140×140 matrix: the full analysis asked at once has its spectrum, and hovers have it once the passes are done', async () => {
+    // Invented: diag(−1, …, −140) written out in full; a diagonal matrix's eigenvalues are its
+    // diagonal entries (standard), so the slowest is λ = −1 (τ = 1 s) and the fastest λ = −140
+    // (floating point here: n is over the exact limit, so values are shown with ≈).
+    const n = 140;
+    const rows = Array.from({ length: n }, (_, i) => `[${Array.from({ length: n }, (_, j) => (i === j ? `${-(i + 1)}.0` : '0.0')).join(', ')}]`);
+    const text = `# invented diagonal state matrix\nA = [${rows.join(',\n     ')}]\n`;
+    expect(text.length).toBeGreaterThan(60_000);
+    const uri = `file:///fixtures/${opened++}/diag140.py`;
+    await client.open(uri, 'python', text);
+    const report = (await client.connection.sendRequest('eigenlens/report', { uri, matrixIndex: 0 })) as { markdown: string } | null;
+    expect(report?.markdown).toContain('−140');
+    expect(report?.markdown).not.toMatch(/later pass analyses it/);
+    await client.diagnosticsWhere(uri, (p) => !p.diagnostics.some((d) => d.code === 'analysis-limit' && d.range.start.line === 0), 60_000);
+    const h = (await client.connection.sendRequest('textDocument/hover', { textDocument: { uri }, position: { line: 1, character: 0 } })) as Hover | null;
+    expect(h && (h.contents as MarkupContent).value).toContain('λ ≈ −1, simple: decays with time constant τ = 1 s');
+  });
+
   it('eigenlens/report returns the full analysis with the full caution', async () => {
     const { uri } = await openFixture('hover_defective.ts');
     const report = (await client.connection.sendRequest('eigenlens/report', { uri })) as { title: string; markdown: string };

@@ -252,13 +252,15 @@ export function startServer(connection: Connection = createConnection(ProposedFe
    *   incomplete one, provided it covers the matrix at `focus`; otherwise a new report within
    *   REQUEST_SLICE_MS that analyses that matrix first.
    * - `command` (the custom requests a user runs: report, discretize, C code): the latest
-   *   complete report, or one with the document's whole time budget.
+   *   complete report, or one with the document's whole time budget, in steps.
+   * `stepped` (an interactive report for a command about one matrix): in steps, and the
+   * matrix is analysed whatever its size (hovers leave large spectra to the passes).
    */
   async function reportFor(
     doc: TextDocument,
     token: CancellationToken | undefined,
     pass: 'slice' | 'interactive' | 'command',
-    opts: { deferChecks?: boolean; focus?: number; continuation?: boolean } = {},
+    opts: { deferChecks?: boolean; focus?: number; continuation?: boolean; stepped?: boolean } = {},
   ): Promise<ReportAnswer | null> {
     if (pass !== 'slice') used(doc.uri);
     await ready;
@@ -298,13 +300,13 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         // a pass over thousands of matrices (that is the diagnostics passes' work).
         focusOnly,
         // A request's answer never waits for a large matrix's spectrum: the stepped passes compute it.
-        deferLargeSpectra: pass === 'interactive',
+        deferLargeSpectra: pass === 'interactive' && opts.stepped !== true,
         // Passes over the same version take over what earlier ones settled.
         previous: cached && cached.version === doc.version ? cached.report : undefined,
       },
       // A diagnostics pass or a command gives the event loop back every PASS_STEP_MS of work
       // (requests meanwhile answer from the latest report); requests run in one go.
-      pass === 'interactive' ? 0 : PASS_STEP_MS,
+      pass === 'interactive' && opts.stepped !== true ? 0 : PASS_STEP_MS,
     );
     let step = steps.next();
     while (!step.done) {
@@ -373,7 +375,8 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   async function reportForMatrix(doc: TextDocument, matrixIndex: number | undefined) {
     const cached = reports.get(doc.uri);
     const known = matrixIndex === undefined || !cached || cached.version !== doc.version ? undefined : cached.report.matrices.find((m) => m.index === matrixIndex);
-    return known ? reportFor(doc, undefined, 'interactive', { focus: known.statementSpan.start }) : reportFor(doc, undefined, 'command');
+    // Commands: the matrix is analysed whatever its size, in steps (other requests answer meanwhile).
+    return known ? reportFor(doc, undefined, 'interactive', { focus: known.statementSpan.start, stepped: true }) : reportFor(doc, undefined, 'command');
   }
 
   /** The report has analysed the state matrix whose statement contains `offset` (or there is none). */
