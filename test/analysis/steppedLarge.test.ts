@@ -25,6 +25,17 @@ beforeAll(async () => {
 const json = (x: unknown) => JSON.stringify(x, (_k, v: unknown) => (typeof v === 'bigint' ? v.toString() : v));
 const reportJson = (r: DocumentReport) => json({ ...r, incomplete: undefined, findings: r.findings.filter((f) => f.code !== 'analysis-limit'), matrices: r.matrices.map((m) => ({ ...m, transition: m.transition })) });
 
+/** Runs a stepwise computation to its end: its result and how many times it yielded. */
+function drain<T>(steps: Generator<unknown, T, void>): { value: T; yields: number } {
+  let yields = 0;
+  let r = steps.next();
+  while (!r.done) {
+    yields++;
+    r = steps.next();
+  }
+  return { value: r.value, yields };
+}
+
 function randomMatrix(n: number, seed: number): number[][] {
   const rnd = seededRandom(seed);
   return Array.from({ length: n }, () => Array.from({ length: n }, () => Math.round((rnd() * 20 - 10) * 1000) / 1000));
@@ -39,16 +50,10 @@ function source(A: number[][], language: 'python' | 'typescript'): string {
 describe('float eigenvalues in steps', () => {
   it('give exactly the one-go eigenvalues, in several steps, and a later eigenFloat of the same entries reuses them', () => {
     const A = randomMatrix(200, 3);
-    const steps = eigenvalueSteps(A);
-    let yields = 0;
-    let r = steps.next();
-    while (!r.done) {
-      yields++;
-      r = steps.next();
-    }
+    const { value, yields } = drain(eigenvalueSteps(A));
     expect(yields).toBeGreaterThan(20);
     const oneGo = eigenFloat(A.map((row) => row.slice()));
-    expect(r.value).toEqual(oneGo.values);
+    expect(value).toEqual(oneGo.values);
     // A changed entry is not the matrix remembered: computed afresh, so the values differ.
     const B = A.map((row) => row.slice());
     B[17][42] += 1;
@@ -60,13 +65,11 @@ describe('float eigenvalues in steps', () => {
     const a = -2;
     const b = 1;
     const T = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? a : Math.abs(i - j) === 1 ? b : 0)));
-    const steps = eigenvalueSteps(T);
-    let r = steps.next();
-    while (!r.done) r = steps.next();
-    const got = r.value.map((v) => v.re).sort((x, y) => x - y);
+    const { value: eigenvalues } = drain(eigenvalueSteps(T));
+    const got = eigenvalues.map((v) => v.re).sort((x, y) => x - y);
     const want = Array.from({ length: n }, (_, k) => a + 2 * b * Math.cos(((k + 1) * Math.PI) / (n + 1))).sort((x, y) => x - y);
     for (let k = 0; k < n; k++) expect(Math.abs(got[k] - want[k])).toBeLessThan(1e-12);
-    for (const v of r.value) expect(v.im).toBe(0);
+    for (const v of eigenvalues) expect(v.im).toBe(0);
     expect(hessenbergQrEigenvalues(T).map((v) => v.re).sort((x, y) => x - y)).toEqual(got);
   });
 });
@@ -101,15 +104,9 @@ describe('a pass in steps over one large matrix', () => {
     expect(oneGo.matrices[0].spectrum).not.toBeNull();
     extract(text, 'python');
     // A step length of a hundredth of a millisecond: every step of the eigenvalue computation is a suspension.
-    const steps = analyzeDocumentSteps(text, 'python', unhurried, { cache: new AnalysisCache() }, 0.01);
-    let suspended = 0;
-    let r = steps.next();
-    while (!r.done) {
-      suspended++;
-      r = steps.next();
-    }
-    expect(suspended).toBeGreaterThan(5);
-    expect(reportJson(r.value)).toBe(reportJson(oneGo));
+    const { value, yields } = drain(analyzeDocumentSteps(text, 'python', unhurried, { cache: new AnalysisCache() }, 0.01));
+    expect(yields).toBeGreaterThan(5);
+    expect(reportJson(value)).toBe(reportJson(oneGo));
   });
 
   it(`a pass in one go that defers large spectra leaves the matrix (n = ${DEFERRED_SPECTRUM_N}) for later, even at the focus; a stepped pass then analyses it`, () => {
@@ -120,10 +117,8 @@ describe('a pass in steps over one large matrix', () => {
     expect(deferred.matrices[0].spectrum).toBeNull();
     expect(deferred.matrices[0].skipped.join(' ')).toMatch(/later pass analyses it/);
     expect(deferred.incomplete).toBe(true);
-    const steps = analyzeDocumentSteps(text, 'python', DEFAULT_SETTINGS, { cache, previous: deferred }, 40);
-    let r = steps.next();
-    while (!r.done) r = steps.next();
-    expect(r.value.matrices[0].spectrum?.eigenvalues.length).toBeGreaterThan(0);
+    const { value: stepped } = drain(analyzeDocumentSteps(text, 'python', DEFAULT_SETTINGS, { cache, previous: deferred }, 40));
+    expect(stepped.matrices[0].spectrum?.eigenvalues.length).toBeGreaterThan(0);
     // Once analysed (cached), a deferring pass has it too.
     expect(analyzeDocument(text, 'python', DEFAULT_SETTINGS, { cache, focus, deferLargeSpectra: true }).matrices[0].spectrum).not.toBeNull();
     // Smaller matrices are not deferred.

@@ -89,6 +89,16 @@ export interface LiteralInput {
  */
 export const STEPPED_LITERAL_CHARS = 20_000;
 
+/** A top list converted row by row, yielding the offset reached after each row (long literals, see STEPPED_LITERAL_CHARS). */
+export function* literalRowsSteps<T>(span: Span, rows: readonly T[], convert: (row: T) => LiteralNode, endOf: (row: T) => number): Generator<number, LiteralNode, void> {
+  const items: LiteralNode[] = [];
+  for (const row of rows) {
+    items.push(convert(row));
+    yield endOf(row);
+  }
+  return { span, items };
+}
+
 export function buildMatrix(
   text: string,
   lang: SourceLanguage,

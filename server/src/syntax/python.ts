@@ -11,7 +11,7 @@
  * are never matrices because they are separate node kinds in the tree.
  */
 import type { Node, Tree } from 'web-tree-sitter';
-import { buildMatrixSteps, PragmaAttacher, STEPPED_LITERAL_CHARS, type LiteralNode } from './literal';
+import { buildMatrixSteps, literalRowsSteps, PragmaAttacher, STEPPED_LITERAL_CHARS, type LiteralNode } from './literal';
 import { evaluateEntry } from './evaluate';
 import type { LiteralMemo } from './literalMemo';
 import { runToEnd, stepsOrValue } from '../engine/steps';
@@ -53,20 +53,10 @@ function toLiteralNode(n: Node, depth = 0): LiteralNode {
   return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(n.type), syntaxError: n.type === 'ERROR' || n.hasError };
 }
 
-/** The top list converted row by row, yielding the offset reached after each (long literals, see STEPPED_LITERAL_CHARS). */
-function* topLiteralSteps(n: Node): Generator<number, LiteralNode, void> {
-  if (n.type !== 'list' && n.type !== 'tuple') return toLiteralNode(n);
-  const items: LiteralNode[] = [];
-  for (const c of namedKids(n)) {
-    items.push(toLiteralNode(c, 1));
-    yield c.endIndex;
-  }
-  return { span: spanOf(n), items };
-}
-
-/** The top list as the builders take it: converted in steps when the literal is long. */
+/** The top list as the builders take it: converted row by row (in steps) when the literal is long. */
 function topOf(n: Node): LiteralNode | Generator<number, LiteralNode, void> {
-  return n.endIndex - n.startIndex >= STEPPED_LITERAL_CHARS ? topLiteralSteps(n) : toLiteralNode(n);
+  const stepped = n.endIndex - n.startIndex >= STEPPED_LITERAL_CHARS && (n.type === 'list' || n.type === 'tuple');
+  return stepped ? literalRowsSteps(spanOf(n), namedKids(n), (c) => toLiteralNode(c, 1), (c) => c.endIndex) : toLiteralNode(n);
 }
 
 /** The list inside `np.array([...], dtype=float)`, or the list itself. */

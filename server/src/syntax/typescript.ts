@@ -11,7 +11,7 @@
  */
 import type { Node, Tree } from 'web-tree-sitter';
 import { evaluateEntry } from './evaluate';
-import { buildMatrixSteps, PragmaAttacher, STEPPED_LITERAL_CHARS, type LiteralInput, type LiteralNode } from './literal';
+import { buildMatrixSteps, literalRowsSteps, PragmaAttacher, STEPPED_LITERAL_CHARS, type LiteralInput, type LiteralNode } from './literal';
 import type { LiteralMemo } from './literalMemo';
 import { runToEnd, stepsOrValue } from '../engine/steps';
 import { roleFromName } from './roles';
@@ -67,21 +67,11 @@ function toLiteralNode(n: Node, depth = 0): LiteralNode {
   return { span: spanOf(n), items: null, obviouslyNonNumeric: NON_NUMERIC_LEAVES.has(u.type), syntaxError: n.type === 'ERROR' || n.hasError };
 }
 
-/** The top array converted row by row, yielding the offset reached after each (long literals, see STEPPED_LITERAL_CHARS). */
-function* topLiteralSteps(n: Node): Generator<number, LiteralNode, void> {
-  const u = unwrap(n);
-  if (u.type !== 'array') return toLiteralNode(n);
-  const items: LiteralNode[] = [];
-  for (const c of namedKids(u)) {
-    items.push(toLiteralNode(c, 1));
-    yield c.endIndex;
-  }
-  return { span: spanOf(n), items };
-}
-
-/** The top array as the builders take it: converted in steps when the literal is long. */
+/** The top array as the builders take it: converted row by row (in steps) when the literal is long. */
 function topOf(n: Node): LiteralNode | Generator<number, LiteralNode, void> {
-  return n.endIndex - n.startIndex >= STEPPED_LITERAL_CHARS ? topLiteralSteps(n) : toLiteralNode(n);
+  const u = unwrap(n);
+  const stepped = n.endIndex - n.startIndex >= STEPPED_LITERAL_CHARS && u.type === 'array';
+  return stepped ? literalRowsSteps(spanOf(n), namedKids(u), (c) => toLiteralNode(c, 1), (c) => c.endIndex) : toLiteralNode(n);
 }
 
 function literalOf(value: Node): { top: Node; arrayCall: boolean } | null {
