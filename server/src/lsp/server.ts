@@ -308,21 +308,29 @@ export function startServer(connection: Connection = createConnection(ProposedFe
       // (requests meanwhile answer from the latest report); requests run in one go.
       pass === 'interactive' && opts.stepped !== true ? 0 : PASS_STEP_MS,
     );
-    let step = steps.next();
-    while (!step.done) {
-      await yieldToRequests();
-      const now = documents.get(doc.uri);
-      // Edited, closed or reconfigured meanwhile: this pass is stale, a newer one is scheduled.
-      if (!now || now.version !== doc.version || epoch !== configurationEpoch || token?.isCancellationRequested) return null;
-      step = steps.next();
-    }
-    const report = step.value;
-    if (token?.isCancellationRequested) return null;
+    // Edited, closed or reconfigured meanwhile: this pass is stale, a newer one is scheduled.
+    const report = await stepThrough(steps, doc, () => epoch === configurationEpoch && token?.isCancellationRequested !== true);
+    if (!report || token?.isCancellationRequested) return null;
     if (report.partial) return { report, settings, partial: true };
     reports.set(doc.uri, { version: doc.version, settings, report });
     // The document is read: its opening report (which only answered while it was being read) can go.
     openings.delete(doc.uri);
     return { report, settings };
+  }
+
+  /**
+   * Runs a pass in steps, answering waiting requests between them; null when the document
+   * changed or closed meanwhile, or `current` says the pass is stale.
+   */
+  async function stepThrough(steps: Generator<void, DocumentReport, void>, doc: TextDocument, current: () => boolean = () => true): Promise<DocumentReport | null> {
+    let step = steps.next();
+    while (!step.done) {
+      await yieldToRequests();
+      const now = documents.get(doc.uri);
+      if (!now || now.version !== doc.version || !current()) return null;
+      step = steps.next();
+    }
+    return step.value;
   }
 
   /** Reading the document would be a full parse of a large text, which is done in slices (see READ_SLICE_MS). */
@@ -475,15 +483,9 @@ export function startServer(connection: Connection = createConnection(ProposedFe
     const budget = Math.min(settings.analysis.timeBudgetMs, OPENING_SLICE_MS);
     // In steps like every pass: on a cold process the opening lines took 170 ms in one block.
     const steps = analyzeDocumentSteps(prefix, language, { ...settings.analysis, timeBudgetMs: budget }, { cache: matrixCache }, PASS_STEP_MS);
-    let step = steps.next();
-    while (!step.done) {
-      await yieldToRequests();
-      const now = documents.get(doc.uri);
-      // Changed or closed meanwhile: the full passes (scheduled by the caller) take the newer text.
-      if (!now || now.version !== doc.version) return true;
-      step = steps.next();
-    }
-    const report = step.value;
+    const report = await stepThrough(steps, doc);
+    // Changed or closed meanwhile: the full passes (scheduled by the caller) take the newer text.
+    if (!report) return true;
     openings.set(doc.uri, { version: doc.version, settings, report, prefix, settledEnd: settledEnd(report) });
     const T2 = performance.now();
     const diagnostics = capDiagnostics(openingDiagnostics(report, prefix, doc.lineCount), settings.maxDiagnostics).map((d) => toDiagnostic(doc, d));
