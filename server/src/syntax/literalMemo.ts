@@ -42,8 +42,6 @@ export interface MemoLiteralInput extends Omit<LiteralInput, 'top'> {
   top: () => LiteralNode | Generator<number, LiteralNode, void>;
 }
 
-
-
 interface MemoEntry {
   /** Constants read while building, with what they were (undefined: not defined). */
   reads: Array<[string, EntryValue | undefined]>;
@@ -204,8 +202,8 @@ export class LiteralMemo {
 
   /**
    * `build` in steps (long literals yield after each row, see buildMatrixSteps). Other
-   * extractions may use the memo between steps; the entry found at the start is then only
-   * replaced if it is still the one under its key.
+   * extractions may use the memo between steps, so the entry stored at the end replaces
+   * whatever is under its key then.
    */
   *buildSteps(text: string, lang: SourceLanguage, scope: ReadonlyMap<string, EntryValue>, input: MemoLiteralInput, problems: Problem[]): Generator<number, MatrixLiteral | null, void> {
     const { top, topSpan, topHasError, ...rest } = input;
@@ -291,7 +289,7 @@ export class LiteralMemo {
   }
 
   private forget(key: string, e: MemoEntry): void {
-    // An entry found before a stepped build may have been evicted meanwhile.
+    // Only the entry under its key: one looked up before a stepped build may have been replaced since.
     if (this.entries.get(key) !== e) return;
     this.entries.delete(key);
     this.chars -= e.size;
