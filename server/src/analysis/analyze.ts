@@ -9,13 +9,14 @@
  */
 import { createHash } from 'node:crypto';
 import { Rational } from '../engine/rational';
-import type { Domain, Spectrum, Stability } from '../engine/types';
+import type { Domain, Mode, Spectrum, Stability } from '../engine/types';
 import { exactSpectrum } from '../engine/spectrumExact';
 import { floatSpectrum } from '../engine/spectrumFloat';
 import { eigenvalueSteps } from '../engine/eigenFloat';
 import { stabilityOf } from '../engine/stability';
 import { modesOf } from '../engine/modes';
 import { ClosedFormSlot, ClosedFormStore } from './closedFormSlot';
+import { DetailBox, type MatrixDetail } from './packedDetail';
 import { extract, initParsers } from '../syntax/extract';
 import { onLiteralMoved } from '../syntax/literalMemo';
 import { groupModels } from '../model/group';
@@ -53,18 +54,44 @@ export async function initAnalysis(opts?: { wasmDir?: string }): Promise<void> {
 }
 
 /** The part of a MatrixReport that depends only on the matrix content and its context. */
-export interface MatrixCore {
-  spectrum: MatrixReport['spectrum'];
-  stability: Stability | null;
-  stabilityReasons: string[];
-  modes: MatrixReport['modes'];
+/**
+ * One matrix analysis as the cache keeps it. The bulky part (spectrum, modes, stability
+ * reasons, sampled model, the matrix itself) sits in a DetailBox, packed into a compact text
+ * while nobody reads it (see packedDetail.ts); the rest is small and stays as it is.
+ */
+export class MatrixCore {
+  stability: Stability | null = null;
   /** The closed form, built on first use (null over the size cap or without a spectrum). */
-  closedForm: ClosedFormSlot | null;
-  discrete: DiscreteModel | null;
-  skipped: string[];
-  notes: string[];
+  closedForm: ClosedFormSlot | null = null;
+  skipped: string[] = [];
+  notes: string[] = [];
   /** The findings last built from this analysis, spans relative to the literal (see cachedFindings). */
   findingsMemo?: { key: string; findings: Finding[] };
+  #box: DetailBox | null = null;
+
+  /** Called once, when the analysis has its spectrum. */
+  setDetail(detail: MatrixDetail): void {
+    this.#box = new DetailBox(detail);
+  }
+  /** Whether there is a spectrum, without unpacking it. */
+  get hasSpectrum(): boolean {
+    return this.#box !== null;
+  }
+  get detail(): MatrixDetail | null {
+    return this.#box?.get() ?? null;
+  }
+  get spectrum(): Spectrum | null {
+    return this.#box?.get().spectrum ?? null;
+  }
+  get stabilityReasons(): string[] {
+    return this.#box?.get().stabilityReasons ?? [];
+  }
+  get modes(): Mode[] {
+    return this.#box?.get().modes ?? [];
+  }
+  get discrete(): DiscreteModel | null {
+    return this.#box?.get().discrete ?? null;
+  }
 }
 
 type ModelRole = 'state' | 'input' | 'output' | 'feedthrough' | 'noiseInput' | 'noiseCovariance';
@@ -334,7 +361,7 @@ export function* analyzeDocumentSteps(
       // A copy: the earlier report is still the one requests read (and another pass may take
       // it over too) while this pass is suspended.
       const own = waiting.report.findings.slice(0, waiting.own);
-      const taken = waiting.report instanceof MatrixReportObject ? waiting.report.withFindings(own) : { ...waiting.report, findings: own };
+      const taken = reportWithFindings(waiting.report, own);
       matrices.push(taken);
       pending[index] = { report: taken, own: waiting.own };
       overBudget++;
@@ -584,7 +611,7 @@ function cachedModelAnalysis(
     for (const role of MODEL_ROLES) {
       const idx = model[role];
       const r = idx === null || idx === undefined ? undefined : reports.get(idx as number);
-      if (r) shadow.set(idx as number, { ...r, findings: [] });
+      if (r) shadow.set(idx as number, reportWithFindings(r, []));
     }
     const report = analyseModel(file, model, shadow, settings);
     const findings: ModelOutcome['findings'] = [];
@@ -721,16 +748,13 @@ function reportForMatrix(
       exact: lit.exact,
       values,
       entrySpans,
-      spectrum: core.spectrum,
       stability: core.stability,
-      modes: core.modes,
-      discrete: core.discrete,
       closedFormAvailable: core.closedForm !== null && core.closedForm.error === null,
       findings: [],
       skipped: core.skipped,
       hash,
     },
-    core.closedForm,
+    core,
   );
   return { report, core };
 }
@@ -757,26 +781,52 @@ class MatrixReportObject implements MatrixReport {
   exact!: boolean;
   entrySpans?: MatrixReport['entrySpans'];
   values!: MatrixReport['values'];
-  spectrum!: MatrixReport['spectrum'];
   stability!: MatrixReport['stability'];
-  modes!: MatrixReport['modes'];
-  discrete!: MatrixReport['discrete'];
   closedFormAvailable!: boolean;
   findings!: Finding[];
   skipped!: string[];
   hash!: string;
-  readonly #slot: ClosedFormSlot | null;
-  constructor(fields: Omit<MatrixReport, 'transition'>, slot: ClosedFormSlot | null) {
+  readonly #core: MatrixCore;
+  constructor(fields: Omit<MatrixReport, 'transition' | 'spectrum' | 'modes' | 'discrete'>, core: MatrixCore) {
     Object.assign(this, fields);
-    this.#slot = slot;
+    this.#core = core;
   }
-  /** The same report with other findings (sharing the closed form). */
+  /** The same report with other findings (sharing the analysis). */
   withFindings(findings: Finding[]): MatrixReportObject {
-    return new MatrixReportObject({ ...this, findings }, this.#slot);
+    return new MatrixReportObject({ ...this, findings }, this.#core);
+  }
+  // The analysis's bulky part is read through the cached analysis, which keeps it packed while
+  // nobody reads it (packedDetail.ts): a pass over 10,000 cached matrices unpacks none.
+  get spectrum(): MatrixReport['spectrum'] {
+    return this.#core.spectrum;
+  }
+  get modes(): MatrixReport['modes'] {
+    return this.#core.modes;
+  }
+  get discrete(): MatrixReport['discrete'] {
+    return this.#core.discrete;
+  }
+  /** Whether the report has a spectrum, without unpacking it. */
+  get hasSpectrum(): boolean {
+    return this.#core.hasSpectrum;
   }
   get transition(): MatrixReport['transition'] {
-    return this.#slot?.get() ?? null;
+    return this.#core.closedForm?.get() ?? null;
   }
+  /** JSON.stringify and structured copies see the spectrum, modes and sampled model (never the closed form, which is built on demand). */
+  toJSON(): Omit<MatrixReport, 'transition'> {
+    return { ...this, spectrum: this.spectrum, modes: this.modes, discrete: this.discrete };
+  }
+}
+
+/** A copy of a report with other findings: the same analysis, read the same way. */
+export function reportWithFindings(report: MatrixReport, findings: Finding[]): MatrixReport {
+  return report instanceof MatrixReportObject ? report.withFindings(findings) : { ...report, findings };
+}
+
+/** Whether a report has a spectrum, without unpacking a packed analysis. */
+export function reportHasSpectrum(report: MatrixReport): boolean {
+  return report instanceof MatrixReportObject ? report.hasSpectrum : report.spectrum !== null;
 }
 
 /** The settings that change a matrix analysis, as a key (once per settings object). */
@@ -837,7 +887,7 @@ function periodOf(v: EntryValue | undefined): number | null {
 }
 
 function emptyCore(): MatrixCore {
-  return { spectrum: null, stability: null, stabilityReasons: [], modes: [], closedForm: null, discrete: null, skipped: [], notes: [] };
+  return new MatrixCore();
 }
 
 function analyseStateMatrix(
@@ -895,24 +945,25 @@ function analyseStateMatrix(
       return core;
     }
   }
-  core.spectrum = spectrum;
   const st = stabilityOf(spectrum.eigenvalues, domain);
   core.stability = st.verdict;
-  core.stabilityReasons = st.reasons;
-  core.modes = modesOf(spectrum, domain, period);
+  const A = exactA ?? floatA;
+  const modes = modesOf(spectrum, domain, period);
 
   if (n <= settings.closedFormMaxN) {
-    core.closedForm = new ClosedFormSlot(hash, exactA ?? floatA, spectrum, domain, settings.closedFormMaxN, store, (message) => core.skipped.push(message));
+    core.closedForm = new ClosedFormSlot(hash, () => core.detail!, domain, settings.closedFormMaxN, store, (message) => core.skipped.push(message));
   } else {
     core.skipped.push(`n = ${n} is over the closed-form limit of ${settings.closedFormMaxN} (setting eigenlens.closedFormMaxN).`);
   }
 
+  let discrete: DiscreteModel | null = null;
   if (domain === 'continuous' && period !== null && settings.discretizeMethod) {
     try {
-      core.discrete = discreteModelFor(file, model, exactA, floatA, period, settings.discretizeMethod);
+      discrete = discreteModelFor(file, model, exactA, floatA, period, settings.discretizeMethod);
     } catch (err) {
       core.skipped.push(`Discretization failed: ${(err as Error).message}`);
     }
   }
+  core.setDetail({ spectrum, stabilityReasons: st.reasons, modes, discrete, A });
   return core;
 }

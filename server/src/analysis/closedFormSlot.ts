@@ -26,9 +26,11 @@ export interface ClosedFormSummary {
  * A held term costs about 480 bytes of heap (its exact text included; measured in a heap
  * snapshot of 10,000 one-line matrices: 35 MB for 73,590 terms), and a closed form dropped
  * here is rebuilt in about a millisecond for n ≤ 8 when a hover or lens reads it again, so
- * the store keeps what a user is looking at rather than everything a pass checked.
+ * the store keeps what a user is looking at rather than everything a pass checked. 6,000
+ * terms (about 3 MB) hold some 800 closed forms of 2×2 matrices, or a few of 10×10 ones;
+ * 30,000 held 14.5 MB in a snapshot of 10,000 one-line matrices, for hovers nobody made.
  */
-export const CLOSED_FORM_STORE_TERMS = 30_000;
+export const CLOSED_FORM_STORE_TERMS = 6_000;
 
 /** Least recently used closed forms, bounded by their total number of terms. */
 export class ClosedFormStore {
@@ -90,8 +92,8 @@ export class ClosedFormSlot {
 
   constructor(
     private readonly key: string,
-    private readonly A: Rational[][] | number[][],
-    private readonly spectrum: Spectrum,
+    /** The matrix and its spectrum, read only when the closed form is (re)built. */
+    private readonly source: () => { A: Rational[][] | number[][]; spectrum: Spectrum },
     private readonly domain: Domain,
     private readonly maxN: number,
     private readonly store: ClosedFormStore | null,
@@ -114,7 +116,8 @@ export class ClosedFormSlot {
       // A rebuild repeats the first build exactly, so it keeps that build's check (which the
       // findings already report) rather than running it again: about a third of a rebuild.
       const known = this.summary ? { check: this.summary.check, conditioning: this.summary.conditioning } : undefined;
-      value = transitionClosedForm(this.A, this.spectrum, this.domain, { maxN: this.maxN, knownCheck: known });
+      const { A, spectrum } = this.source();
+      value = transitionClosedForm(A, spectrum, this.domain, { maxN: this.maxN, knownCheck: known });
     } catch (err) {
       this.error = (err as Error).message;
       this.onError(`The closed form could not be built: ${this.error}`);

@@ -29,7 +29,8 @@ import {
   type CancellationToken,
 } from 'vscode-languageserver/node';
 import { TextDocument } from 'vscode-languageserver-textdocument';
-import { abandonExtractions, AnalysisCache, analyzeDocument, analyzeDocumentSteps, stateMatrixOutline, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
+import { detailStats } from '../analysis/packedDetail';
+import { abandonExtractions, AnalysisCache, reportHasSpectrum, analyzeDocument, analyzeDocumentSteps, stateMatrixOutline, extractSlice, initAnalysis, needsSlicedExtraction, retainExtractionsOf } from '../analysis/analyze';
 import { NOT_YET_PREFIX } from '../analysis/findings';
 import type { DocumentReport } from '../analysis/report';
 import type { SourceLanguage } from '../syntax/types';
@@ -390,7 +391,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
   /** The report has analysed the state matrix whose statement contains `offset` (or there is none). */
   function coversFocus(report: DocumentReport, offset: number): boolean {
     const m = report.matrices.find((x) => x.statementSpan.start <= offset && offset <= x.statementSpan.end);
-    return !m || !m.skipped.some((s) => s.startsWith(NOT_YET_PREFIX)) && (m.role !== 'state' || m.spectrum !== null || m.skipped.length > 0);
+    return !m || !m.skipped.some((s) => s.startsWith(NOT_YET_PREFIX)) && (m.role !== 'state' || reportHasSpectrum(m) || m.skipped.length > 0);
   }
 
   /** When each open document was last opened, edited or asked about (a counter, not a time). */
@@ -827,6 +828,7 @@ export function startServer(connection: Connection = createConnection(ProposedFe
         released: released.size,
         matrixCache: { size: matrixCache.size, hits: matrixCache.hits, misses: matrixCache.misses },
         closedForms: { held: matrixCache.closedForms.size, terms: matrixCache.closedForms.heldTerms, builds: matrixCache.closedForms.builds },
+        details: detailStats(),
         idleCollections: idle.collections,
         idleCollectionsSkipped: idle.skipped,
       };

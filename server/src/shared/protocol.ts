@@ -90,6 +90,8 @@ export interface StatsRequestResult {
   released: number;
   matrixCache: { size: number; hits: number; misses: number };
   closedForms: { held: number; terms: number; builds: number };
+  /** Matrix analyses whose bulky part is held as objects (the rest is packed), the bound on them, and how often one was unpacked. */
+  details?: { hot: number; limit: number; unpacks: number };
   /** Full collections the idle collector ran. */
   idleCollections: number;
   /** Quiet periods whose collection was skipped: the heap was too large to collect without a long pause. */
