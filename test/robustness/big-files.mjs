@@ -96,6 +96,18 @@ async function measure(label, text) {
   // is done, a hover, code lens and code action on a random matrix every 20 ms; every answer timed.
   let probing = true;
   const probes = { hoverMs: [], codeLensMs: [], codeActionMs: [] };
+  // The server's own memory account every half second from the open to the end: where the peak is.
+  const samples = [];
+  let phase = 'open';
+  let sampling = true;
+  const sampler = (async () => {
+    while (sampling) {
+      const at = performance.now();
+      const s = await conn.sendRequest('eigenlens/stats', {}).catch(() => null);
+      if (s) samples.push({ phase, atMs: Math.round(at - t0), ...s.memoryMB, peak: Math.round(memory(child.pid).peak) });
+      await new Promise((res) => setTimeout(res, 500));
+    }
+  })();
   const probeLoop = (async () => {
     while (probing) {
       const line = matrixLines.length > 0 ? matrixLines[Math.floor(rnd() * matrixLines.length)] : 0;
@@ -119,6 +131,7 @@ async function measure(label, text) {
   const during = { hoverMs: stat(probes.hoverMs).max, codeLensMs: stat(probes.codeLensMs).max, codeActionMs: stat(probes.codeActionMs).max, detail: Object.fromEntries(Object.entries(probes).map(([k, v]) => [k, stat(v)])) };
   const after = await requests();
   // One edit, then diagnostics again (cached matrices elsewhere in the file).
+  phase = 'edit';
   const e0 = performance.now();
   const again = until((p) => p.version === 2);
   await conn.sendNotification('textDocument/didChange', { textDocument: { uri, version: 2 }, contentChanges: [{ range: { start: { line: 0, character: 0 }, end: { line: 0, character: 0 } }, text: '# edit\n' }] });
@@ -126,7 +139,10 @@ async function measure(label, text) {
   const editDiagnosticsMs = performance.now() - e0;
   await until((p) => p.version === 2 && !pending(p));
   // Quiet for a while, as an editor is between edits: the server's idle collection runs.
+  phase = 'quiet';
   await new Promise((r) => setTimeout(r, 3000));
+  sampling = false;
+  await sampler;
   const mem = memory(child.pid);
   // The server's own account of where the memory is (JS heap spaces, external, WASM is in rss only).
   const stats = await conn.sendRequest('eigenlens/stats', {}).catch(() => null);
@@ -139,7 +155,7 @@ async function measure(label, text) {
   await conn.sendNotification('exit').catch(() => {});
   await new Promise((r) => (child.exitCode !== null ? r() : child.on('exit', r)));
   conn.dispose();
-  return { label, chars: text.length, diagnosticsMs, completeMs, during, after, editDiagnosticsMs, rssMb: mem.rss, peakRssMb: mem.peak, serverMemoryMB: stats?.memoryMB ?? null, heapSpacesMB: stats?.heapSpacesMB ?? null, diagnosticsCount: diag.at(-1)?.diagnostics.length ?? null };
+  return { label, chars: text.length, diagnosticsMs, completeMs, during, after, editDiagnosticsMs, rssMb: mem.rss, peakRssMb: mem.peak, serverMemoryMB: stats?.memoryMB ?? null, heapSpacesMB: stats?.heapSpacesMB ?? null, details: stats?.details ?? null, closedForms: stats?.closedForms ?? null, diagnosticsCount: diag.at(-1)?.diagnostics.length ?? null, duringMemoryMB: samples };
 }
 
 const cases = [
